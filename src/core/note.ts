@@ -1,0 +1,278 @@
+/**
+ * Evaluates a whole note: its `shear` blocks top to bottom, names flowing from earlier blocks to
+ * later ones. One bad line is one diagnostic; everything else still evaluates. Time per block is
+ * bounded. A cache lets an editor re-evaluate only the blocks an edit can change.
+ */
+import { type Block, extractBlocks } from './blocks';
+import { type Diagnostic, NoteError } from './diagnostic';
+import type { Expr } from './expression';
+import { type Binding, type EvalContext, evaluate } from './evaluate';
+import { formatNumber } from './format';
+import { evaluateBeamStatement } from './beam-statement';
+import { evaluateSectionStatement } from './section-statement';
+import { type CompareOp, parseBlock, type Statement } from './statements';
+import { DIM, describeDimension, isDimensionless, lookupUnit, preferredUnit, sameDimension, siUnitText, type UnitSystem, unitSystemOf } from './units';
+import type { Quantity, Value } from './values';
+
+export interface NoteOptions {
+  /** 'auto' (default) picks the system most of the note's units belong to; `units SI|US` in a block wins over both. */
+  unitSystem?: 'auto' | UnitSystem;
+  significantFigures?: number;
+  /** Milliseconds one block may take before the rest of it is skipped with a diagnostic. */
+  blockBudgetMs?: number;
+  /** A clock, injected so the core stays pure; defaults to Date.now. */
+  now?: () => number;
+}
+
+/** One statement's outcome, in source order. */
+export interface StatementResult {
+  statement: Statement;
+  /** The name the statement defines, if any. */
+  name?: string;
+  value?: Value;
+  /** The value as shown: "66.6 kN"; for a section "A = 13 200 mm², I = …". */
+  text?: string;
+  check?: CheckResult;
+  /** Values of names, members and calls inside the statement's expressions. */
+  trace: Map<Expr, Value>;
+  failed: boolean;
+}
+
+export interface CheckResult {
+  line: number;
+  text: string;
+  op: CompareOp;
+  left: Quantity;
+  right: Quantity;
+  pass: boolean;
+  /** Utilisation: demand over capacity (left/right for <, <=; right/left for >, >=). */
+  ratio: number;
+  leftText: string;
+  rightText: string;
+}
+
+export interface BlockResult {
+  block: Block;
+  statements: Statement[];
+  results: StatementResult[];
+  /** Names this block defines, in order, with their bindings. */
+  defines: Map<string, Binding>;
+  /** Names read from earlier blocks, with the binding seen (for incremental re-evaluation). */
+  reads: Map<string, Binding | undefined>;
+  checks: CheckResult[];
+  diagnostics: Diagnostic[];
+  unitSystem: UnitSystem;
+}
+
+export interface NoteResult {
+  blocks: BlockResult[];
+  unitSystem: UnitSystem;
+  diagnostics: Diagnostic[];
+  /** Blocks reused from the cache on this evaluation (for measuring incremental work). */
+  reused: number;
+}
+
+/** Keeps the previous evaluation so an edit re-evaluates only the blocks it can change. */
+export class NoteCache {
+  previous: BlockResult[] = [];
+  key = '';
+}
+
+const DEFAULT_BUDGET_MS = 3000;
+
+export function evaluateNote(text: string, options: NoteOptions = {}, cache?: NoteCache): NoteResult {
+  const blocks = extractBlocks(text);
+  const system = chooseSystem(blocks, options);
+  const now = options.now ?? Date.now;
+  const budget = options.blockBudgetMs ?? DEFAULT_BUDGET_MS;
+  const scope = new Map<string, Binding>();
+  const results: BlockResult[] = [];
+  const optionsKey = `${system}|${options.significantFigures ?? 3}`;
+  const prior = cache && cache.key === optionsKey ? cache.previous : [];
+  const priorBySource = new Map<string, BlockResult[]>();
+  for (const r of prior) {
+    const list = priorBySource.get(r.block.source) ?? [];
+    list.push(r);
+    priorBySource.set(r.block.source, list);
+  }
+  let reused = 0;
+  for (const block of blocks) {
+    const candidate = (priorBySource.get(block.source) ?? []).find((r) => sameLayout(r.block, block) && readsUnchanged(r, scope));
+    let result: BlockResult;
+    if (candidate) {
+      result = candidate;
+      reused++;
+    } else {
+      result = evaluateBlock(block, scope, { system, sig: options.significantFigures, now, budget });
+    }
+    for (const [name, b] of result.defines) scope.set(name, b);
+    results.push(result);
+  }
+  if (cache) {
+    cache.previous = results;
+    cache.key = optionsKey;
+  }
+  return { blocks: results, unitSystem: system, diagnostics: results.flatMap((r) => r.diagnostics), reused };
+}
+
+function sameLayout(a: Block, b: Block): boolean {
+  if (a.fenceLine !== b.fenceLine || a.lines.length !== b.lines.length || a.index !== b.index) return false;
+  for (let i = 0; i < a.lines.length; i++) if (a.lines[i]!.column !== b.lines[i]!.column) return false;
+  return true;
+}
+
+function readsUnchanged(r: BlockResult, scope: Map<string, Binding>): boolean {
+  // Misses are recorded too (as undefined), so a name defined later upstream invalidates the block.
+  for (const [name, b] of r.reads) if (scope.get(name) !== b) return false;
+  return true;
+}
+
+function chooseSystem(blocks: Block[], options: NoteOptions): UnitSystem {
+  for (const b of blocks) {
+    for (const l of b.lines) {
+      const m = /^\s*units\s+(SI|US)\s*(#.*)?$/i.exec(l.text);
+      if (m) return m[1]!.toUpperCase() as UnitSystem;
+    }
+  }
+  if (options.unitSystem && options.unitSystem !== 'auto') return options.unitSystem;
+  const names: string[] = [];
+  for (const b of blocks) {
+    for (const l of b.lines) {
+      const code = l.text.replace(/#.*$/, '');
+      for (const m of code.matchAll(/[0-9.)\s]\s*([A-Za-z]+)/g)) names.push(m[1]!);
+    }
+  }
+  return unitSystemOf(names);
+}
+
+interface BlockSettings {
+  system: UnitSystem;
+  sig?: number;
+  now: () => number;
+  budget: number;
+}
+
+export function evaluateBlock(block: Block, outer: Map<string, Binding>, settings: BlockSettings): BlockResult {
+  const started = settings.now();
+  const parsed = parseBlock(block);
+  const diagnostics = [...parsed.diagnostics];
+  const defines = new Map<string, Binding>();
+  const reads = new Map<string, Binding | undefined>();
+  const results: StatementResult[] = [];
+  const checks: CheckResult[] = [];
+  const lookup = (name: string): Binding | undefined => {
+    const inner = defines.get(name);
+    if (inner) return inner;
+    const b = outer.get(name);
+    reads.set(name, b);
+    return b;
+  };
+  const fmt = (q: Quantity) => formatQuantity(q, settings.system, settings.sig);
+  for (const st of parsed.statements) {
+    if (settings.now() - started > settings.budget) {
+      diagnostics.push({ code: 'block.budget', severity: 'error', message: `This block took longer than ${settings.budget} ms; the statements from here on were not evaluated.`, line: st.line, column: st.start, endColumn: st.end });
+      break;
+    }
+    const trace = new Map<Expr, Value>();
+    const ctx: EvalContext = { lookup, line: st.line, system: settings.system, trace };
+    const res: StatementResult = { statement: st, trace, failed: false };
+    results.push(res);
+    try {
+      switch (st.kind) {
+        case 'assign': {
+          const v = evaluate(st.expr, ctx);
+          if (v.kind === 'side') throw new NoteError('type.quantity', '`left` and `right` only name the side of a jump in shear(beam, x, left).', { line: st.line, start: st.expr.start, end: st.expr.end });
+          res.name = st.target.name;
+          res.value = v;
+          res.text = v.kind === 'quantity' ? fmt(v) : undefined;
+          if (v.kind === 'quantity' && lookupUnit(st.target.name)) {
+            diagnostics.push({ code: 'name.shadows-unit', severity: 'warning', message: `The name "${st.target.name}" hides the unit ${st.target.name} in the lines below; pick another name if you mean the unit there.`, line: st.line, column: st.target.start, endColumn: st.target.end });
+          }
+          define(st.target.name, v, st.line, st.target.start, st.target.end);
+          break;
+        }
+        case 'section': {
+          const out = evaluateSectionStatement(st, ctx);
+          diagnostics.push(...out.diagnostics);
+          if (out.value) {
+            res.name = st.target.name;
+            res.value = out.value;
+            define(st.target.name, out.value, st.line, st.target.start, st.target.end);
+          } else res.failed = true;
+          break;
+        }
+        case 'beam': {
+          const out = evaluateBeamStatement(st, ctx);
+          diagnostics.push(...out.diagnostics);
+          if (out.value) {
+            res.name = st.target.name;
+            res.value = out.value;
+            define(st.target.name, out.value, st.line, st.target.start, st.target.end);
+          } else res.failed = true;
+          break;
+        }
+        case 'check': {
+          const lv = evaluate(st.left, ctx);
+          const rv = evaluate(st.right, ctx);
+          if (lv.kind !== 'quantity' || rv.kind !== 'quantity') throw new NoteError('check.kind', 'A check compares two quantities.', { line: st.line, start: st.left.start, end: st.right.end });
+          if (!sameDimension(lv.dim, rv.dim)) {
+            throw new NoteError('unit.mismatch', `Cannot compare ${describeDimension(lv.dim, settings.system)} with ${describeDimension(rv.dim, settings.system)}.`, { line: st.line, start: st.left.start, end: st.right.end });
+          }
+          const check = makeCheck(st, lv, rv, fmt);
+          res.check = check;
+          res.text = `${check.pass ? 'OK' : 'NOT OK'}, ratio ${formatNumber(check.ratio, { significantFigures: Math.max(2, settings.sig ?? 3) })}`;
+          checks.push(check);
+          if (Math.sign(lv.si) !== Math.sign(rv.si) && lv.si !== 0 && rv.si !== 0) {
+            diagnostics.push({ code: 'check.sign', severity: 'warning', message: 'The two sides have opposite signs, so this check says little; compare magnitudes with abs(…).', line: st.line, column: st.left.start, endColumn: st.right.end });
+          }
+          if (!check.pass) {
+            diagnostics.push({ code: 'check.fails', severity: 'warning', message: `Check fails: ${check.leftText} ${negate(st.op)} ${check.rightText} (utilisation ${formatNumber(check.ratio)}).`, line: st.line, column: st.start, endColumn: st.end });
+          }
+          break;
+        }
+        case 'units':
+          break;
+      }
+    } catch (e) {
+      res.failed = true;
+      if (e instanceof NoteError && e.span) {
+        diagnostics.push({ code: e.code, severity: 'error', message: e.message, line: e.span.line, column: e.span.start, endColumn: e.span.end });
+      } else {
+        diagnostics.push({ code: 'internal', severity: 'error', message: `Could not evaluate this line: ${e instanceof Error ? e.message : String(e)}`, line: st.line, column: st.start, endColumn: st.end });
+      }
+    }
+  }
+  return { block, statements: parsed.statements, results, defines, reads, checks, diagnostics, unitSystem: settings.system };
+
+  function define(name: string, value: Value, line: number, start: number, end: number) {
+    defines.set(name, { value, line, start, end, blockIndex: block.index });
+  }
+}
+
+function negate(op: CompareOp): string {
+  return op === '<=' ? '>' : op === '<' ? '>=' : op === '>=' ? '<' : '<=';
+}
+
+function makeCheck(st: Extract<Statement, { kind: 'check' }>, l: Quantity, r: Quantity, fmt: (q: Quantity) => string): CheckResult {
+  const pass = st.op === '<=' ? l.si <= r.si : st.op === '<' ? l.si < r.si : st.op === '>=' ? l.si >= r.si : l.si > r.si;
+  const [demand, capacity] = st.op === '<=' || st.op === '<' ? [l.si, r.si] : [r.si, l.si];
+  let ratio: number;
+  if (capacity === 0) {
+    if (demand === 0) ratio = 0;
+    else throw new NoteError('check.zero', 'The limit of this check is zero, so no utilisation ratio exists; write a non-zero limit.', { line: st.line, start: st.left.start, end: st.right.end });
+  } else ratio = demand / capacity;
+  return { line: st.line, text: st.text, op: st.op, left: l, right: r, pass, ratio, leftText: fmt(l), rightText: fmt(r) };
+}
+
+/** "66.6 kN": in the unit the note wrote for it, else the unit system's choice for its dimension. */
+export function formatQuantity(q: Quantity, system: UnitSystem, sig?: number): string {
+  const unit = q.shown ?? preferredUnit(q.dim, q.si, system);
+  if (unit) {
+    const n = formatNumber(q.si / unit.factor, { significantFigures: sig });
+    return unit.text ? `${n} ${unit.text}` : n;
+  }
+  const u = siUnitText(q.dim);
+  return `${formatNumber(q.si, { significantFigures: sig })}${u ? ' ' + u : ''}`;
+}
+
+export { DIM, isDimensionless };
