@@ -14,6 +14,7 @@ import {
   type Connection,
   type InitializeParams,
   type InitializeResult,
+  CodeActionKind,
   LSPErrorCodes,
   ResponseError,
   TextDocumentSyncKind,
@@ -27,6 +28,7 @@ import { noteDiagnostics, noteSummary } from './features/diagnostics';
 import { hover } from './features/hover';
 import { inlayHints } from './features/inlayHints';
 import { definition, highlights, references } from './features/navigation';
+import { stampDiagnostics, stampEdits, stampQuickFixes, STAMP_EDITS_REQUEST } from './features/stamps';
 import { documentSymbols } from './features/symbols';
 import { DEFAULT_SETTINGS, mergeSettings, type ServerSettings, type ThemeKind } from './settings';
 
@@ -88,6 +90,15 @@ export function startServer(connection: Connection, deps: ServerDeps = {}): Serv
     }
   }
 
+  function safely<T>(fn: () => T, fallback: T): T {
+    try {
+      return fn();
+    } catch (e) {
+      log(`tauline: ${e instanceof Error ? (e.stack ?? e.message) : String(e)}`);
+      return fallback;
+    }
+  }
+
   async function validate(uri: string): Promise<void> {
     timers.delete(uri);
     const doc = documents.get(uri);
@@ -104,7 +115,7 @@ export function startServer(connection: Connection, deps: ServerDeps = {}): Serv
     await yieldToQueue();
     const current = documents.get(uri);
     if (!current || current.version !== version) return;
-    await connection.sendDiagnostics({ uri, version, diagnostics: noteDiagnostics(a) });
+    await connection.sendDiagnostics({ uri, version, diagnostics: [...noteDiagnostics(a), ...safely(() => stampDiagnostics(a, settings.significantFigures), [])] });
     void connection.sendNotification(NOTE_SUMMARY_NOTIFICATION, noteSummary(a));
   }
 
@@ -138,6 +149,7 @@ export function startServer(connection: Connection, deps: ServerDeps = {}): Serv
         referencesProvider: true,
         documentHighlightProvider: true,
         documentSymbolProvider: { label: 'Tauline' },
+        codeActionProvider: { codeActionKinds: [CodeActionKind.QuickFix] },
       },
       serverInfo: { name: 'tauline', version: '0.1.0' },
     };
@@ -180,6 +192,11 @@ export function startServer(connection: Connection, deps: ServerDeps = {}): Serv
   connection.onReferences((p, token) => handle(token, p.textDocument.uri, [], (a) => references(a, p.position, p.context.includeDeclaration)));
   connection.onDocumentHighlight((p, token) => handle(token, p.textDocument.uri, [], (a) => highlights(a, p.position)));
   connection.onDocumentSymbol((p, token) => handle(token, p.textDocument.uri, [], (a) => documentSymbols(a, settings)));
+
+  connection.onCodeAction((p, token) => handle(token, p.textDocument.uri, [], (a) => stampQuickFixes(a, p.context.diagnostics, settings.significantFigures)));
+  connection.onRequest(STAMP_EDITS_REQUEST, (p: { uri: string }, token) =>
+    handle(token, p?.uri, { edits: [], problems: ['The note is not open.'], version: -1 }, (a) => stampEdits(a, settings.significantFigures)),
+  );
 
   documents.listen(connection);
   connection.listen();
