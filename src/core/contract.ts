@@ -69,7 +69,7 @@ export function noteToJson(path: string, note: NoteResult): JsonFile {
   return {
     path,
     blocks: note.blocks.map((b) => {
-      const values: Record<string, JsonValue> = {};
+      const values: Record<string, JsonValue> = Object.create(null) as Record<string, JsonValue>;
       for (const r of b.results) {
         if (!r.name || !r.value) continue;
         const line = r.statement.line + 1;
@@ -78,7 +78,7 @@ export function noteToJson(path: string, note: NoteResult): JsonFile {
           values[r.name] = { line, si: v.si, unit: siUnitText(v.dim), text: r.text ?? '' };
         } else if (v.kind === 'section') {
           const s = v.section;
-          values[r.name] = { line, kind: 'section', A: s.area, yc: s.centroidY, I: s.I, depth: s.depth, Iy: s.Iy, Ixy: s.Ixy, tau_max_at: s.tauMax(1).y };
+          values[r.name] = { line, kind: 'section', A: s.area, yc: s.centroidY, I: s.I, depth: s.depth, Iy: s.Iy, Ixy: s.Ixy, tau_max_at: s.tauMax(1).locations[0]?.y ?? 0 };
         } else if (v.kind === 'beam') {
           const sum = v.beam.summary(v.combination);
           const beam: JsonBeam = { line, kind: 'beam', Vmax: sum.Vmax, Mmax: sum.Mmax, Mmin: sum.Mmin, reactions: v.beam.reactions(v.combination) };

@@ -41,6 +41,9 @@ export interface EvalContext {
   reads?: Map<string, Binding>;
 }
 
+/** Raised when a name's own definition failed; reported once, at the definition, not at every use. */
+export const UNAVAILABLE = 'name.unavailable';
+
 export const CONSTANTS: Record<string, number> = { pi: Math.PI };
 
 export interface FunctionInfo {
@@ -125,6 +128,8 @@ export function describeValue(v: Value): string {
       return `the beam ${v.name}`;
     case 'side':
       return `the word ${v.side}`;
+    case 'unavailable':
+      return `${v.name} (which has an error)`;
   }
 }
 
@@ -176,6 +181,7 @@ function resolveName(name: string, e: Expr, ctx: EvalContext): Value {
   const b = ctx.lookup(name);
   if (b) {
     ctx.reads?.set(name, b);
+    if (b.value.kind === 'unavailable') throw new NoteError(UNAVAILABLE, `${name} has an error on its own line.`, spanOf(e, ctx));
     return b.value;
   }
   if (name === 'left' || name === 'right') return { kind: 'side', side: name };
@@ -252,11 +258,11 @@ function member(e: Extract<Expr, { kind: 'member' }>, ctx: EvalContext): Value {
       case 'span':
         return quantity(obj.beam.span, DIM.length);
     }
-    if (!obj.combination && obj.beam.combinationNames.includes(e.member)) {
+    if (!obj.combination && (obj.beam.combinationNames.includes(e.member) || obj.beam.groupNames.includes(e.member))) {
       return { kind: 'beam', name: `${obj.name}.${e.member}`, beam: obj.beam, combination: e.member };
     }
-    const combos = obj.beam.combinationNames;
-    throw new NoteError('member.unknown', `A beam has ${Object.keys(BEAM_MEMBERS).join(', ')}${combos.length && !obj.combination ? ` and its combinations ${combos.join(', ')}` : ''}; "${e.member}" is not one of them.`, at);
+    const combos = [...obj.beam.combinationNames, ...obj.beam.groupNames];
+    throw new NoteError('member.unknown', `A beam has ${Object.keys(BEAM_MEMBERS).join(', ')}${combos.length && !obj.combination ? ` and its load groups and combinations ${combos.join(', ')}` : ''}; "${e.member}" is not one of them.`, at);
   }
   throw new NoteError('member.unknown', `Only sections and beams have members; ${describeValue(obj)} has none.`, at);
 }
@@ -313,32 +319,36 @@ function call(e: Extract<Expr, { kind: 'call' }>, ctx: EvalContext): Value {
       const s = sectionArg(0);
       const V = q(1, DIM.force, 'shear force V');
       const y = height(s, 2);
-      return quantity(s.section.tau(V, y), DIM.stress);
+      return quantity(reading(s.section.tau(V, y), e, ctx), DIM.stress);
     }
     case 'tau_max': {
       arity(2);
       const s = sectionArg(0);
-      return quantity(s.section.tauMax(q(1, DIM.force, 'shear force V')).tau, DIM.stress);
+      const m = s.section.tauMax(q(1, DIM.force, 'shear force V'));
+      return quantity(reading(m, e, ctx), DIM.stress);
     }
     case 'tau_max_at': {
       arity(1);
-      return quantity(sectionArg(0).section.tauMax(1).y, DIM.length);
+      const m = sectionArg(0).section.tauMax(1);
+      reading(m, e, ctx);
+      return quantity(m.locations[0]?.y ?? 0, DIM.length);
     }
     case 'flow': {
       arity(3);
       const s = sectionArg(0);
       const V = q(1, DIM.force, 'shear force V');
-      return quantity(s.section.shearFlow(V, height(s, 2)), DIM.lineLoad);
+      return quantity(reading(s.section.shearFlow(V, height(s, 2)), e, ctx), DIM.lineLoad);
     }
     case 'Q': {
       arity(2);
       const s = sectionArg(0);
-      return quantity(s.section.firstMoment(height(s, 1)), DIM.volume);
+      return quantity(reading(s.section.firstMoment(height(s, 1)), e, ctx), DIM.volume);
     }
     case 'width': {
       arity(2);
       const s = sectionArg(0);
       const w = s.section.widthAt(height(s, 1));
+      if (w.problem) throw new NoteError(w.problem.code, w.problem.message, spanOf(e, ctx));
       const positive = [w.below, w.above].filter((x) => x > 0);
       return quantity(positive.length ? Math.min(...positive) : 0, DIM.length);
     }
@@ -392,6 +402,12 @@ function call(e: Extract<Expr, { kind: 'call' }>, ctx: EvalContext): Value {
     }
   }
   throw new NoteError('name.function-unknown', `There is no function "${e.callee}".`, spanOf(e, ctx));
+}
+
+/** The section engine returns a problem instead of a number where none exists (no material at y). */
+function reading(r: { value: number; problem?: { code: string; message: string } }, e: Expr, ctx: EvalContext): number {
+  if (r.problem) throw new NoteError(r.problem.code, r.problem.message, spanOf(e, ctx));
+  return finite(r.value, e, ctx);
 }
 
 function ordinal(i: number): string {

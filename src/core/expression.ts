@@ -20,7 +20,7 @@ export const MAX_LINE_LENGTH = 4000;
 export const MAX_TOKENS = 1000;
 export const MAX_DEPTH = 64;
 
-const OPERATORS = ['<=', '>=', '==', '+', '-', '*', '/', '^', '(', ')', ',', '.', '=', '<', '>', '·', '×', '−', '²', '³', '⁴'];
+const OPERATORS = ['<=', '>=', '==', ':', '+', '-', '*', '/', '^', '(', ')', ',', '.', '=', '<', '>', '·', '×', '−', '²', '³', '⁴'];
 
 /** Splits one line (or part of one) into tokens. `base` is the column of text[0] in the Markdown line. */
 export function tokenize(text: string, base: number, line: number): Token[] {

@@ -6,7 +6,7 @@
 import { type Block, extractBlocks } from './blocks';
 import { type Diagnostic, NoteError } from './diagnostic';
 import type { Expr } from './expression';
-import { type Binding, type EvalContext, evaluate } from './evaluate';
+import { type Binding, type EvalContext, evaluate, UNAVAILABLE } from './evaluate';
 import { formatNumber } from './format';
 import { evaluateBeamStatement } from './beam-statement';
 import { evaluateSectionStatement } from './section-statement';
@@ -198,7 +198,10 @@ export function evaluateBlock(block: Block, outer: Map<string, Binding>, setting
             res.name = st.target.name;
             res.value = out.value;
             define(st.target.name, out.value, st.line, st.target.start, st.target.end);
-          } else res.failed = true;
+          } else {
+            res.failed = true;
+            define(st.target.name, { kind: 'unavailable', name: st.target.name }, st.line, st.target.start, st.target.end);
+          }
           break;
         }
         case 'beam': {
@@ -208,7 +211,10 @@ export function evaluateBlock(block: Block, outer: Map<string, Binding>, setting
             res.name = st.target.name;
             res.value = out.value;
             define(st.target.name, out.value, st.line, st.target.start, st.target.end);
-          } else res.failed = true;
+          } else {
+            res.failed = true;
+            define(st.target.name, { kind: 'unavailable', name: st.target.name }, st.line, st.target.start, st.target.end);
+          }
           break;
         }
         case 'check': {
@@ -235,7 +241,10 @@ export function evaluateBlock(block: Block, outer: Map<string, Binding>, setting
       }
     } catch (e) {
       res.failed = true;
-      if (e instanceof NoteError && e.span) {
+      if (st.kind === 'assign') define(st.target.name, { kind: 'unavailable', name: st.target.name }, st.line, st.target.start, st.target.end);
+      if (e instanceof NoteError && e.code === UNAVAILABLE) {
+        // Already reported where the name is defined.
+      } else if (e instanceof NoteError && e.span) {
         diagnostics.push({ code: e.code, severity: 'error', message: e.message, line: e.span.line, column: e.span.start, endColumn: e.span.end });
       } else {
         diagnostics.push({ code: 'internal', severity: 'error', message: `Could not evaluate this line: ${e instanceof Error ? e.message : String(e)}`, line: st.line, column: st.start, endColumn: st.end });

@@ -6,13 +6,13 @@
 import { type Diagnostic, NoteError } from './diagnostic';
 import { type EvalContext, evaluate, unitFromTerms } from './evaluate';
 import type { Expr } from './expression';
-import * as shapes from './section/shapes';
-import { buildSection } from './section/section';
+import * as shapes from './section';
+import { buildSection } from './section';
 import type { PartStatement, Statement } from './statements';
 import { DIM, describeDimension, isDimensionless, sameDimension } from './units';
 import type { SectionValue } from './values';
 
-type Part = ReturnType<typeof shapes.plate>['part'];
+type Part = shapes.Part;
 
 export function evaluateSectionStatement(st: Extract<Statement, { kind: 'section' }>, ctx: EvalContext): { value?: SectionValue; diagnostics: Diagnostic[] } {
   const diagnostics: Diagnostic[] = [];

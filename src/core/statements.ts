@@ -167,6 +167,7 @@ function nameRef(t: Token): NameRef {
 }
 
 function checkTarget(cur: TokenCursor, t: Token, what: string): void {
+  if (t.text.startsWith('__')) cur.fail(`Names may not start with two underscores.`, t, 'name.reserved');
   if (RESERVED.has(t.text)) cur.fail(`"${t.text}" is a word of the block language and cannot name ${what}.`, t, 'name.reserved');
 }
 

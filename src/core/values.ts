@@ -3,11 +3,16 @@
  */
 import type { Dimension, DisplayUnit } from './units';
 import type { Section } from './section/section';
+import type { BeamResult } from './beam';
 
 /** What the evaluator asks of a solved beam; `combination` undefined means the design envelope. */
 export interface BeamModel {
+  /** The solver's full result, for diagrams and reports. */
+  result: BeamResult;
   span: number;
+  /** Combinations the note wrote (`combine NAME = …`) and load groups it named (`dead: udl …`). */
   combinationNames: string[];
+  groupNames: string[];
   summary(combination?: string): { Vmax: number; Mmax: number; Mmin: number };
   shear(x: number, side?: 'left' | 'right', combination?: string): number;
   moment(x: number, combination?: string): number;
@@ -35,7 +40,7 @@ export interface BeamValue {
   kind: 'beam';
   name: string;
   beam: BeamModel;
-  /** A beam value seen through one load combination (`B.ULS`); undefined means the design envelope. */
+  /** A beam value seen through one load combination or load group (`B.ULS`, `B.dead`); undefined means the design envelope. */
   combination?: string;
 }
 
@@ -44,7 +49,13 @@ export interface SideValue {
   side: 'left' | 'right';
 }
 
-export type Value = Quantity | SectionValue | BeamValue | SideValue;
+/** A name whose own line has an error: reading it fails quietly, so one mistake is one diagnostic. */
+export interface UnavailableValue {
+  kind: 'unavailable';
+  name: string;
+}
+
+export type Value = Quantity | SectionValue | BeamValue | SideValue | UnavailableValue;
 
 export function quantity(si: number, dim: Dimension, shown?: DisplayUnit): Quantity {
   return shown ? { kind: 'quantity', si, dim, shown } : { kind: 'quantity', si, dim };
