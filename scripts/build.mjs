@@ -4,6 +4,7 @@ import { existsSync } from 'node:fs';
 
 const targets = [
   { entry: 'src/cli/index.ts', outfile: 'dist/cli.js', platform: 'node' },
+  { entry: 'src/cli/worker.ts', outfile: 'dist/worker.js', platform: 'node' },
   { entry: 'src/server/node.ts', outfile: 'dist/server.js', platform: 'node' },
   { entry: 'src/extension/extension.ts', outfile: 'dist/extension.js', platform: 'node', external: ['vscode'] },
   { entry: 'src/extension/browser.ts', outfile: 'dist/browser/extension.js', platform: 'browser', format: 'cjs', external: ['vscode'] },

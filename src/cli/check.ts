@@ -1,8 +1,15 @@
-import { readFileSync } from 'node:fs';
+/**
+ * `tauline check`: evaluates every note and reports. Exit codes (a contract): 0 every check passes
+ * and no block has an error; 1 a check fails, a block has an error, or with --frozen a results
+ * stamp is stale, missing or damaged; 2 an unreadable file. The JSON output is the contract of
+ * PRODUCT.md, extended with `stale` per file and `summary.stale` (stale stamps are listed with or
+ * without --frozen; only --frozen makes them fail).
+ */
 import { CAUTION_SHORT } from '../core/cautions';
-import { type JsonFile, noteToJson, summarize } from '../core/contract';
-import { evaluateNote } from '../core/note';
+import { type JsonFile, type JsonReport, summarize } from '../core/contract';
 import { displayPath, findNotes } from './files';
+import { describeChanges, type JsonStale, type NoteOutcome } from './note-task';
+import { runNoteTasks } from './pool';
 
 export interface CheckOptions {
   paths: string[];
@@ -11,27 +18,31 @@ export interface CheckOptions {
   frozen: boolean;
   out: (s: string) => void;
   err: (s: string) => void;
+  /** Threads for evaluating notes (default: TAULINE_JOBS, else the number of cores). */
+  jobs?: number;
 }
+
+/** A file of the JSON report: the contract's file plus the stamps that do not match the results. */
+export type CheckedFile = JsonFile & { stale: JsonStale[] };
 
 export async function runCheck(o: CheckOptions): Promise<number> {
   const { files, missing } = findNotes(o.paths, o.cwd);
-  const results: JsonFile[] = [];
   let unreadable = missing.length > 0;
   for (const m of missing) o.err(`tauline: cannot read ${m}: no such file or folder\n`);
-  for (const abs of files) {
-    const path = displayPath(abs, o.cwd);
-    let text: string;
-    try {
-      text = readFileSync(abs, 'utf8');
-    } catch (e) {
+  const outcomes: NoteOutcome[] = await runNoteTasks(
+    files.map((abs) => ({ path: displayPath(abs, o.cwd), absPath: abs, mode: 'check' as const })),
+    { jobs: o.jobs },
+  );
+  const results: CheckedFile[] = [];
+  for (const r of outcomes) {
+    if (r.readError) {
       unreadable = true;
-      o.err(`tauline: cannot read ${path}: ${(e as NodeJS.ErrnoException).code ?? String(e)}\n`);
-      results.push({ path, blocks: [], error: 'unreadable' });
-      continue;
+      o.err(`tauline: cannot read ${r.path}: ${r.readError}\n`);
     }
-    results.push(noteToJson(path, evaluateNote(text)));
+    results.push({ ...r.file, stale: r.stale });
   }
-  const summary = summarize(results);
+  const summary: JsonReport['summary'] = { ...summarize(results), stale: results.reduce((n, f) => n + f.stale.length, 0) };
+
   if (o.format === 'json') {
     o.out(JSON.stringify({ files: results, summary }, null, 2) + '\n');
   } else if (o.format === 'github') {
@@ -44,8 +55,13 @@ export async function runCheck(o: CheckOptions): Promise<number> {
           if (!c.pass) o.out(`::error file=${escapeProperty(f.path)},line=${c.line},title=tauline check fails::${escapeData(`${c.text} (utilisation ${c.ratio.toFixed(2)})`)}\n`);
         }
       }
+      if (o.frozen) {
+        for (const s of f.stale) {
+          o.out(`::error file=${escapeProperty(f.path)},line=${s.stampLine ?? s.line},title=tauline stale stamp::${escapeData(s.message)}\n`);
+        }
+      }
     }
-    o.out(summaryLine(summary) + '\n');
+    o.out(summaryLine(summary, o.frozen) + '\n');
   } else {
     for (const f of results) {
       if (f.error) continue;
@@ -61,16 +77,25 @@ export async function runCheck(o: CheckOptions): Promise<number> {
           o.out(`    ${d.severity}  ${f.path}:${d.line}:${d.column}  ${d.message}\n`);
         }
       }
+      if (o.frozen) {
+        for (const s of f.stale) {
+          o.out(`  STALE  ${f.path}:${s.stampLine ?? s.line}  ${s.reason === 'changed' ? `stamp of block "${s.title || `at line ${s.line}`}": ${describeChanges(s.changes)}` : s.message}\n`);
+        }
+      }
     }
-    o.out(`\n${summaryLine(summary)}\n${CAUTION_SHORT}\n`);
+    o.out(`\n${summaryLine(summary, o.frozen)}\n`);
+    if (!o.frozen && summary.stale) o.out(`${summary.stale} results ${summary.stale === 1 ? 'stamp does' : 'stamps do'} not match the results; run tauline stamp (tauline check --frozen fails on this).\n`);
+    o.out(`${CAUTION_SHORT}\n`);
   }
   if (unreadable) return 2;
-  return summary.failed > 0 || summary.errors > 0 ? 1 : 0;
+  if (summary.failed > 0 || summary.errors > 0) return 1;
+  return o.frozen && (summary.stale ?? 0) > 0 ? 1 : 0;
 }
 
-function summaryLine(s: ReturnType<typeof summarize>): string {
+function summaryLine(s: JsonReport['summary'], frozen: boolean): string {
   const plural = (n: number, w: string) => `${n} ${w}${n === 1 ? '' : 's'}`;
-  return `${plural(s.files, 'note')}, ${plural(s.blocks, 'block')}, ${plural(s.checks, 'check')}: ${s.checks - s.failed} pass, ${s.failed} fail; ${plural(s.errors, 'error')}`;
+  const base = `${plural(s.files, 'note')}, ${plural(s.blocks, 'block')}, ${plural(s.checks, 'check')}: ${s.checks - s.failed} pass, ${s.failed} fail; ${plural(s.errors, 'error')}`;
+  return frozen ? `${base}; ${plural(s.stale ?? 0, 'stale stamp')}` : base;
 }
 
 function escapeData(s: string): string {

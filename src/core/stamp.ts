@@ -243,7 +243,8 @@ function resultRow(r: StatementResult, system: UnitSystem, sig: number): string[
     if (sum.Mmin < 0) parts.push(`Mmin = ${quantityText(sum.Mmin, DIM.moment, system, sig)}`);
     return [codeSpan(name), parts.join(', '), ''];
   }
-  return undefined;
+  // A name whose line failed quietly (an unavailable value) shows as not evaluated.
+  return [codeSpan(name), NOT_EVALUATED, ''];
 }
 
 function quantityText(si: number, dim: Dimension, system: UnitSystem, sig: number): string {

@@ -1,0 +1,85 @@
+/**
+ * Evaluates many notes on worker threads, one pool sized to the machine's cores, and returns the
+ * outcomes in the order of the tasks, so output never depends on which thread finished first.
+ * A handful of notes run on the main thread (starting workers costs more than it saves). The
+ * worker is dist/worker.js, bundled beside dist/cli.js; when it is absent (running from sources
+ * in tests) everything runs on the main thread. TAULINE_JOBS=N sets the number of threads
+ * (1 = main thread only).
+ */
+import { existsSync } from 'node:fs';
+import { availableParallelism } from 'node:os';
+import { join } from 'node:path';
+import { Worker } from 'node:worker_threads';
+import { type NoteOutcome, type NoteTask, runNoteTask } from './note-task';
+
+/** Below this many notes everything runs on the main thread. */
+export const POOL_THRESHOLD = 8;
+
+export interface PoolOptions {
+  /** Threads to use; defaults to TAULINE_JOBS, else the number of cores. */
+  jobs?: number;
+  /** The bundled worker script; defaults to worker.js beside the running cli.js. */
+  workerPath?: string;
+}
+
+export function defaultJobs(): number {
+  const fromEnv = Number.parseInt(process.env.TAULINE_JOBS ?? '', 10);
+  if (Number.isFinite(fromEnv) && fromEnv >= 1) return Math.min(fromEnv, 64);
+  return Math.max(1, availableParallelism());
+}
+
+function defaultWorkerPath(): string | undefined {
+  const here = typeof __dirname === 'string' ? __dirname : undefined;
+  if (!here) return undefined;
+  const p = join(here, 'worker.js');
+  return existsSync(p) ? p : undefined;
+}
+
+export async function runNoteTasks(tasks: readonly NoteTask[], options: PoolOptions = {}): Promise<NoteOutcome[]> {
+  const jobs = Math.min(options.jobs ?? defaultJobs(), tasks.length);
+  const workerPath = options.workerPath ?? defaultWorkerPath();
+  if (jobs <= 1 || tasks.length <= POOL_THRESHOLD || !workerPath) return tasks.map(runNoteTask);
+
+  const outcomes = new Array<NoteOutcome | undefined>(tasks.length);
+  let next = 0;
+  const runOne = (worker: Worker) =>
+    new Promise<void>((resolve) => {
+      const inFlight = new Set<number>();
+      let done = false;
+      const finish = () => {
+        if (done) return;
+        done = true;
+        resolve();
+      };
+      const feed = () => {
+        // Two tasks in flight per worker hide the message round trip.
+        while (inFlight.size < 2 && next < tasks.length) {
+          const id = next++;
+          inFlight.add(id);
+          worker.postMessage({ id, task: tasks[id] });
+        }
+        if (inFlight.size === 0) finish();
+      };
+      worker.on('message', (m: { id: number; outcome: NoteOutcome }) => {
+        outcomes[m.id] = m.outcome;
+        inFlight.delete(m.id);
+        feed();
+      });
+      const fail = () => {
+        // A worker that dies leaves its notes to the main thread; the output stays complete.
+        inFlight.clear();
+        finish();
+      };
+      worker.on('error', fail);
+      worker.on('exit', fail);
+      feed();
+    });
+  const workers = Array.from({ length: jobs }, () => new Worker(workerPath));
+  try {
+    await Promise.all(workers.map(runOne));
+  } finally {
+    await Promise.all(workers.map((w) => w.terminate()));
+  }
+  for (let i = 0; i < tasks.length; i++) if (!outcomes[i]) outcomes[i] = runNoteTask(tasks[i]!);
+  return outcomes as NoteOutcome[];
+}
