@@ -16,7 +16,9 @@ import { quantity, type BeamValue, type SectionValue, type Value } from '../../c
 import { type Definition, exprAt, nameAt, type NoteAnalysis, statementAt } from '../analysis';
 import { checkBadge, isLiteral, type Presenter, presenter, ratioText, substitute } from '../present';
 import type { ServerSettings } from '../settings';
-import { beamPicture, markdownImage, paletteFor, type Palette, ratioBar, sectionPicture, sparkline } from './pictures';
+import { beamDiagrams, sectionWithTau, sparkline as tauSparkline } from '../../render/figures';
+import type { ThemeKind } from '../settings';
+import { figureColors, forHover, markdownImage, paletteFor, type Palette, ratioBar, sparkline } from './pictures';
 
 export function hover(a: NoteAnalysis, pos: Position, settings: ServerSettings): Hover | null {
   const line = pos.line;
@@ -43,8 +45,8 @@ export function hover(a: NoteAnalysis, pos: Position, settings: ServerSettings):
       if (named.use && !def) return md([`**${named.site.name}**: not defined above this line.`]);
       return null;
     }
-    if (value.kind === 'section') return md(sectionHover(a, value, pr, palette, def));
-    if (value.kind === 'beam') return md(beamHover(value, pr, palette, def));
+    if (value.kind === 'section') return md(sectionHover(a, value, pr, settings.themeKind, def));
+    if (value.kind === 'beam') return md(beamHover(value, pr, settings.themeKind, def));
     if (value.kind === 'quantity') return md(quantityHover(a, named.site.name, def, pr));
     return null;
   }
@@ -55,7 +57,7 @@ export function hover(a: NoteAnalysis, pos: Position, settings: ServerSettings):
     const res = a.resultOf.get(at.site.statement);
     const node = at.node;
     if (node.kind === 'call' && ch <= node.calleeEnd && res) {
-      const out = callHover(a, node, res.trace, pr, palette);
+      const out = callHover(node, res.trace, pr, palette, settings.themeKind);
       if (out) return md(out);
     }
     if (node.kind === 'member' && res) {
@@ -92,7 +94,7 @@ function quantityHover(a: NoteAnalysis, name: string, def: Definition | undefine
     if (sub !== written) rows.push(`${pad}= ${sub}`);
   }
   const result = res.text ?? pr.q(res.value);
-  if (rows.length > 1 || written !== result) rows.push(`${pad}= ${result}`);
+  if (rows[rows.length - 1] !== `${pad}= ${result}` && written !== result) rows.push(`${pad}= ${result}`);
   return [`**${name}** = ${result}`, '```text\n' + rows.join('\n') + '\n```', `_defined on line ${def.line + 1}_`];
 }
 
@@ -114,7 +116,7 @@ function unitShear(system: UnitSystem): { si: number; text: string } {
   return system === 'US' ? { si: 4448.2216152605, text: '1 kip' } : { si: 1000, text: '1 kN' };
 }
 
-function sectionHover(a: NoteAnalysis, v: SectionValue, pr: Presenter, palette: Palette, def: Definition | undefined): string[] {
+function sectionHover(a: NoteAnalysis, v: SectionValue, pr: Presenter, theme: ThemeKind, def: Definition | undefined): string[] {
   const s = v.section;
   const found = designShearFor(a, v);
   const V = found ?? unitShear(pr.system).si;
@@ -122,8 +124,6 @@ function sectionHover(a: NoteAnalysis, v: SectionValue, pr: Presenter, palette: 
   const Qna = s.firstMoment(s.centroidY).value;
   const tm = s.tauMax(V);
   const yMax = tm.locations.map((l) => l.y);
-  const profile = s.profile(64);
-  const tau = Float64Array.from(profile.tauPerV, (t) => t * V);
   const rows: [string, string][] = [
     ['A', pr.q(quantity(s.area, DIM.area))],
     ['yc (neutral axis above the lowest point)', pr.length(s.centroidY)],
@@ -133,24 +133,17 @@ function sectionHover(a: NoteAnalysis, v: SectionValue, pr: Presenter, palette: 
     ['tau_max at height', yMax.length ? yMax.map((y) => pr.length(y)).join(' and ') : '—'],
   ];
   const tauMaxText = pr.q(quantity(Math.abs(tm.value), DIM.stress));
-  const svg = sectionPicture(
-    {
-      title: `${v.name}${v.title ? ': ' + v.title : ''}`,
-      outline: s.outline().map((o) => ({ sign: o.sign, shape: o.shape })),
-      left: s.left,
-      width: s.width,
-      depth: s.depth,
-      centroidY: s.centroidY,
-      profile: { y: profile.y, tau },
-      tauMax: { value: Math.abs(tm.value), ys: yMax },
-      labels: {
-        tauMax: `τmax ${tauMaxText}`,
-        stressTitle: `τ(y), V = ${Vtext}`,
-        size: `${pr.length(s.width)} × ${pr.length(s.depth)}`,
-        neutralAxis: 'NA',
-      },
-    },
-    palette,
+  const svg = forHover(
+    sectionWithTau(s, V, {
+      colors: figureColors(theme),
+      system: pr.system,
+      significantFigures: pr.sig,
+      maxWidth: 130,
+      maxHeight: 150,
+      plotWidth: 130,
+      title: `Section ${v.name} to scale beside tau(y) for V = ${Vtext}`,
+    }),
+    theme,
   );
   const table = ['| property | value |', '|---|---|', ...rows.map(([k, val]) => `| ${k} | ${val} |`)].join('\n');
   return [
@@ -166,76 +159,19 @@ function escapeMd(s: string): string {
   return s.replace(/[\\`*_{}\[\]()#+!|<>]/g, (c) => '\\' + c);
 }
 
-interface Samples {
-  x: ArrayLike<number>;
-  V: ArrayLike<number>;
-  M: ArrayLike<number>;
-}
-
-/** Points for drawing V(x) and M(x): the solver's own samples when it offers them, else both sides of many sections. */
-export function beamSamples(b: BeamValue, count = 120): Samples {
-  const model = b.beam as unknown as { sample?: (n: number, combination?: string) => Samples };
-  if (typeof model.sample === 'function') {
-    try {
-      const s = model.sample(count, b.combination);
-      if (s && s.x && s.x.length > 1) return s;
-    } catch {
-      // fall back to sampling below
-    }
-  }
-  const span = b.beam.span;
-  const xs: number[] = [];
-  const Vs: number[] = [];
-  const Ms: number[] = [];
-  const stations = new Set<number>();
-  for (let i = 0; i <= count; i++) stations.add((span * i) / count);
-  for (const r of b.beam.reactions(b.combination)) stations.add(r.x);
-  for (const x of [...stations].sort((p, q) => p - q)) {
-    const left = b.beam.shear(x, 'left', b.combination);
-    const right = b.beam.shear(x, 'right', b.combination);
-    const m = b.beam.moment(x, b.combination);
-    xs.push(x);
-    Vs.push(x === 0 ? right : left);
-    Ms.push(m);
-    if (x !== 0 && x !== span && Math.abs(left - right) > 1e-9 * (Math.abs(left) + Math.abs(right) + 1)) {
-      xs.push(x);
-      Vs.push(right);
-      Ms.push(m);
-    }
-  }
-  return { x: xs, V: Vs, M: Ms };
-}
-
-function extreme(xs: ArrayLike<number>, vs: ArrayLike<number>): { x: number; v: number } {
-  let best = { x: 0, v: 0 };
-  for (let i = 0; i < xs.length; i++) if (Math.abs(vs[i]!) > Math.abs(best.v)) best = { x: xs[i]!, v: vs[i]! };
-  return best;
-}
-
-function beamHover(b: BeamValue, pr: Presenter, palette: Palette, def: Definition | undefined): string[] {
-  const s = beamSamples(b);
-  const Vx = extreme(s.x, s.V);
-  const Mx = extreme(s.x, s.M);
+function beamHover(b: BeamValue, pr: Presenter, theme: ThemeKind, def: Definition | undefined): string[] {
   const reactions = b.beam.reactions(b.combination);
   const sum = b.beam.summary(b.combination);
-  const svg = beamPicture(
-    {
-      title: `Beam ${b.name}: shear and bending moment diagrams`,
-      span: b.beam.span,
-      x: s.x,
-      V: s.V,
-      M: s.M,
-      supports: reactions.map((r) => ({ x: r.x, fixed: r.M !== undefined })),
-      labels: {
-        span: `span ${pr.length(b.beam.span)}`,
-        Vname: 'V',
-        Mname: 'M',
-        Vmax: pr.q(quantity(Vx.v, DIM.force)),
-        Mmax: pr.q(quantity(Mx.v, DIM.moment)),
-      },
-      marks: { Vx: Vx.x, Vvalue: Vx.v, Mx: Mx.x, Mvalue: Mx.v },
-    },
-    palette,
+  const svg = forHover(
+    beamDiagrams(b.beam.result, {
+      colors: figureColors(theme),
+      system: pr.system,
+      significantFigures: pr.sig,
+      width: 400,
+      combination: b.combination,
+      title: `Beam ${b.name}: shear force and bending moment diagrams`,
+    }),
+    theme,
   );
   const rows = [
     `| | |`,
@@ -254,7 +190,7 @@ function beamHover(b: BeamValue, pr: Presenter, palette: Palette, def: Definitio
   ].filter((x): x is string => !!x);
 }
 
-function callHover(a: NoteAnalysis, call: Extract<Expr, { kind: 'call' }>, trace: Map<Expr, Value>, pr: Presenter, palette: Palette): string[] | undefined {
+function callHover(call: Extract<Expr, { kind: 'call' }>, trace: Map<Expr, Value>, pr: Presenter, palette: Palette, theme: ThemeKind): string[] | undefined {
   const info = Object.prototype.hasOwnProperty.call(FUNCTIONS, call.callee) ? FUNCTIONS[call.callee] : undefined;
   const value = trace.get(call);
   const head = info ? ['`' + info.signature + '`', info.doc] : [];
@@ -265,26 +201,25 @@ function callHover(a: NoteAnalysis, call: Extract<Expr, { kind: 'call' }>, trace
   const V = call.args[1] ? trace.get(call.args[1]) : undefined;
   if (s?.kind !== 'section' || V?.kind !== 'quantity') return out;
   const section: Section = s.section;
-  const prof = section.profile(64);
   const isFlow = call.callee === 'flow';
-  const values = Float64Array.from(prof.tauPerV, (t, i) => (isFlow ? t * prof.width[i]! : t) * V.si);
   let markY: number | undefined;
   if (call.callee === 'tau_max') markY = section.tauMax(V.si).locations[0]?.y;
   else {
     const y = trace.get(call.args[2]!);
     if (y?.kind === 'quantity') markY = y.si;
   }
-  const svg = sparkline(
-    {
-      title: `${isFlow ? 'Shear flow' : 'Shear stress'} over the depth of ${s.name}`,
-      y: prof.y,
-      value: values,
-      mark: markY !== undefined ? { y: markY, value: value.si } : undefined,
-      left: 'bottom',
-      right: `top · ${isFlow ? 'q' : 'τ'}(y) of ${s.name}`,
-    },
-    palette,
-  );
+  let svg: string;
+  if (isFlow) {
+    // q(y) = V·Q(y)/I: its shape is Q's, not tau's, wherever the width changes.
+    const prof = section.profile(64);
+    const values = Float64Array.from(prof.tauPerV, (t, i) => t * prof.width[i]! * V.si);
+    svg = sparkline(
+      { title: `Shear flow over the depth of ${s.name}`, y: prof.y, value: values, mark: markY !== undefined ? { y: markY, value: value.si } : undefined, left: 'bottom', right: `top · q(y) of ${s.name}` },
+      palette,
+    );
+  } else {
+    svg = forHover(tauSparkline(section, V.si, { colors: figureColors(theme), width: 220, height: 48, mark: markY, title: `Shear stress over the depth of ${s.name}` }), theme);
+  }
   out.splice(1, 0, markdownImage(`${isFlow ? 'Shear flow' : 'Shear stress'} distribution of ${s.name}`, svg));
   if (markY !== undefined) out.push(`at y = ${pr.length(markY)} above the lowest point, V = ${pr.q(V)}`);
   return out;
@@ -295,7 +230,10 @@ function checkHover(a: NoteAnalysis, st: Extract<Statement, { kind: 'check' }>, 
   const svg = ratioBar({ ratio: c.ratio, pass: c.pass, label: checkBadge(c) }, palette);
   const left = substitute(st.left, trace, lineText, pr);
   const right = substitute(st.right, trace, lineText, pr);
-  const rows = [`check ${c.text}`, `      ${left} ${st.op} ${right}`, `      ${c.leftText} ${st.op} ${c.rightText}  →  ${c.pass ? 'OK' : 'NOT OK'}`];
+  const rows = [`check ${c.text}`];
+  const values = `${c.leftText} ${st.op} ${c.rightText}`;
+  if (`${left} ${st.op} ${right}` !== values) rows.push(`      ${left} ${st.op} ${right}`);
+  rows.push(`      ${values}  →  ${c.pass ? 'OK' : 'NOT OK'}, utilisation ${ratioText(c.ratio)}`);
   return [
     `**check ${c.pass ? 'OK' : 'NOT OK'}** — utilisation ${ratioText(c.ratio)}`,
     markdownImage(`Utilisation ${ratioText(c.ratio)} of 1.0`, svg),

@@ -1,6 +1,8 @@
 /**
- * Small SVG pictures for hovers: the section to scale beside its tau(y) diagram, a sparkline of a
- * distribution, a utilisation bar, and V(x)/M(x) diagrams of a beam.
+ * Hover pictures. The section-with-tau(y), tau sparkline and V(x)/M(x) figures come from the
+ * shared figure module (src/render/figures.ts, also used by the calculation sheet); this file adds
+ * what only hovers need: colours per theme kind, a card behind a figure when the theme is unknown,
+ * the base64 data URI, a utilisation bar, and a sparkline of any distribution (shear flow).
  *
  * Hovers strip inline SVG, so each picture travels as a base64 `data:image/svg+xml` image. Such an
  * image is an isolated document: it cannot read the editor's theme variables, so colours are baked
@@ -10,6 +12,7 @@
  * characters, which would break the image). Text is escaped; nothing from the note becomes markup.
  * Pure string building: runs in Node and in the browser worker.
  */
+import type { FigureColors } from '../../render/figures';
 import type { ThemeKind } from '../settings';
 
 export interface Palette {
@@ -125,94 +128,7 @@ export function markdownImage(alt: string, svg: string): string {
 }
 
 // ---------------------------------------------------------------------------------------------
-// Section beside its tau(y) diagram
-
-export type OutlineShape =
-  | { kind: 'polygon'; xs: ArrayLike<number>; ys: ArrayLike<number> }
-  | { kind: 'circle'; cx: number; cy: number; r: number };
-
-export interface SectionPictureInput {
-  title: string;
-  /** Outline in metres: x in the caller's frame, y from the lowest point; sign -1 is a void. */
-  outline: { sign: 1 | -1; shape: OutlineShape }[];
-  left: number;
-  width: number;
-  depth: number;
-  centroidY: number;
-  /** tau(y) in display units; y ascending (a height may repeat at a width jump). */
-  profile: { y: ArrayLike<number>; tau: ArrayLike<number> };
-  /** Heights of tau_max and its value (display units). */
-  tauMax: { value: number; ys: number[] };
-  labels: { tauMax: string; stressTitle: string; size: string; neutralAxis: string };
-}
-
-export const SECTION_PICTURE = { width: 380, height: 200 };
-
-export function sectionPicture(input: SectionPictureInput, p: Palette): string {
-  const { width: W, height: H } = SECTION_PICTURE;
-  const top = 22;
-  const bottom = H - 30;
-  const plotH = bottom - top;
-  const secW = 140;
-  const secX0 = 14;
-  const scale = Math.min(secW / Math.max(input.width, 1e-12), plotH / Math.max(input.depth, 1e-12));
-  const drawnW = input.width * scale;
-  const drawnH = input.depth * scale;
-  const ox = secX0 + (secW - drawnW) / 2;
-  const oy = bottom - (plotH - drawnH) / 2; // screen y of the section's lowest point
-  const sx = (x: number) => ox + (x - input.left) * scale;
-  const sy = (y: number) => oy - y * scale;
-  const shape = (s: OutlineShape, fill: string) => {
-    if (s.kind === 'circle') return `<circle cx="${n(sx(s.cx))}" cy="${n(sy(s.cy))}" r="${n(s.r * scale)}" fill="${fill}"/>`;
-    let d = '';
-    for (let i = 0; i < s.xs.length; i++) d += `${i ? 'L' : 'M'}${n(sx(s.xs[i]!))} ${n(sy(s.ys[i]!))}`;
-    return `<path d="${d}Z" fill="${fill}"/>`;
-  };
-  let svg = svgOpen(W, H, p, input.title);
-  // Material: solids painted white in a mask, voids black, so holes show the background through.
-  const solids = input.outline.filter((o) => o.sign > 0).map((o) => shape(o.shape, '#fff')).join('');
-  const voids = input.outline.filter((o) => o.sign < 0).map((o) => shape(o.shape, '#000')).join('');
-  svg += `<defs><mask id="m" maskUnits="userSpaceOnUse" x="0" y="0" width="${W}" height="${H}"><rect width="${W}" height="${H}" fill="#000"/>${solids}${voids}</mask></defs>`;
-  svg += `<rect x="0" y="0" width="${W}" height="${H}" fill="${p.material}" mask="url(#m)"/>`;
-  svg += `<g fill="none" stroke="${p.materialStroke}" stroke-width="1">${input.outline.map((o) => shape(o.shape, 'none')).join('')}</g>`;
-  svg += text(secX0 + secW / 2, H - 14, input.labels.size, p.muted, 'middle');
-  svg += text(secX0, 13, input.title, p.text, 'start', ' font-weight="600"');
-
-  // tau(y): same vertical scale as the section, so heights line up across the two panels.
-  const tx0 = secX0 + secW + 28;
-  const tW = W - tx0 - 16;
-  const maxTau = Math.max(Math.abs(input.tauMax.value), ...Array.from(input.profile.tau, (t) => Math.abs(t)), 1e-30);
-  const tx = (t: number) => tx0 + (Math.abs(t) / maxTau) * tW * 0.78;
-  svg += `<line x1="${n(tx0)}" y1="${n(sy(0))}" x2="${n(tx0)}" y2="${n(sy(input.depth))}" stroke="${p.grid}"/>`;
-  const ys = input.profile.y;
-  const ts = input.profile.tau;
-  if (ys.length > 1) {
-    let d = `M${n(tx0)} ${n(sy(ys[0]!))}`;
-    for (let i = 0; i < ys.length; i++) d += `L${n(tx(ts[i]!))} ${n(sy(ys[i]!))}`;
-    d += `L${n(tx0)} ${n(sy(ys[ys.length - 1]!))}Z`;
-    svg += `<path d="${d}" fill="${p.stress}" fill-opacity="0.85" stroke="${p.stressStroke}" stroke-width="1.2" stroke-linejoin="round"/>`;
-  }
-  svg += text(tx0, 13, input.labels.stressTitle, p.text, 'start', ' font-weight="600"');
-  // Neutral axis across both panels.
-  const ya = sy(input.centroidY);
-  svg += `<line x1="${n(secX0 - 6)}" y1="${n(ya)}" x2="${n(W - 8)}" y2="${n(ya)}" stroke="${p.axis}" stroke-dasharray="4 3"/>`;
-  svg += text(secX0 - 6, ya - 3, input.labels.neutralAxis, p.axis);
-  for (const y of input.tauMax.ys.slice(0, 2)) {
-    const cx = tx(input.tauMax.value);
-    const cy = sy(y);
-    svg += `<circle cx="${n(cx)}" cy="${n(cy)}" r="3" fill="${p.marker}"/>`;
-  }
-  if (input.tauMax.ys.length) {
-    const cy = sy(input.tauMax.ys[0]!);
-    const labelY = Math.min(bottom, Math.max(top + 10, cy + (cy - top < 24 ? 14 : -7)));
-    svg += text(W - 10, labelY, input.labels.tauMax, p.marker, 'end');
-  }
-  svg += text(tx0, H - 14, '0', p.muted, 'middle');
-  return svg + '</svg>';
-}
-
-// ---------------------------------------------------------------------------------------------
-// Sparkline of a distribution over the depth (tau or shear flow against height)
+// Sparkline of a distribution over the depth (shear flow against height)
 
 export const SPARKLINE = { width: 240, height: 64 };
 
@@ -268,64 +184,40 @@ export function ratioBar(input: { ratio: number; pass: boolean; label: string },
   return svg + '</svg>';
 }
 
-// ---------------------------------------------------------------------------------------------
-// V(x) and M(x) of a beam
-
-export interface BeamPictureInput {
-  title: string;
-  span: number;
-  x: ArrayLike<number>;
-  V: ArrayLike<number>;
-  M: ArrayLike<number>;
-  supports: { x: number; fixed: boolean }[];
-  /** Labels of the extremes, already formatted with units. */
-  labels: { span: string; Vmax: string; Mmax: string; Vname: string; Mname: string };
-  /** Positions (x) of the extremes to mark. */
-  marks: { Vx: number; Vvalue: number; Mx: number; Mvalue: number };
+/** The shared figures' colour scheme for a theme kind (high-contrast themes take the plain light/dark ones). */
+export function figureColors(kind: ThemeKind): FigureColors {
+  return kind === 'dark' || kind === 'highContrast' ? 'dark' : 'light';
 }
 
-export const BEAM_PICTURE = { width: 320, height: 176 };
+/**
+ * A figure ready for a hover: as drawn when the theme kind is known; on a light card of its own
+ * when it is not, so dark ink never lands on a dark hover.
+ */
+export function forHover(figure: string, kind: ThemeKind): string {
+  const svg = strictXml(figure);
+  const p = paletteFor(kind);
+  if (!p.card) return svg;
+  const m = /^<svg\b[^>]*\bwidth="([\d.]+)"[^>]*\bheight="([\d.]+)"/.exec(svg);
+  if (!m) return svg;
+  const w = Math.ceil(Number(m[1])) + 12;
+  const h = Math.ceil(Number(m[2])) + 12;
+  const inner = svg.replace(/^<svg\b/, '<svg x="6" y="6"');
+  return `<svg xmlns="http://www.w3.org/2000/svg" width="${w}" height="${h}" viewBox="0 0 ${w} ${h}"><rect x="0.5" y="0.5" width="${w - 1}" height="${h - 1}" rx="6" fill="${p.card}" stroke="${p.grid}"/>${inner}</svg>`;
+}
 
-export function beamPicture(input: BeamPictureInput, p: Palette): string {
-  const { width: W, height: H } = BEAM_PICTURE;
-  const x0 = 30;
-  const x1 = W - 12;
-  const sx = (x: number) => x0 + (x / Math.max(input.span, 1e-30)) * (x1 - x0);
-  let svg = svgOpen(W, H, p, input.title);
-  // The beam and its supports.
-  const beamY = 20;
-  svg += `<line x1="${x0}" y1="${beamY}" x2="${x1}" y2="${beamY}" stroke="${p.text}" stroke-width="2.5"/>`;
-  for (const s of input.supports) {
-    const x = sx(s.x);
-    if (s.fixed) {
-      const wx = s.x <= input.span / 2 ? x - 2 : x + 2;
-      svg += `<line x1="${n(wx)}" y1="${beamY - 9}" x2="${n(wx)}" y2="${beamY + 9}" stroke="${p.muted}" stroke-width="3"/>`;
-    } else {
-      svg += `<path d="M${n(x)} ${beamY + 1}L${n(x - 5)} ${beamY + 9}L${n(x + 5)} ${beamY + 9}Z" fill="${p.muted}"/>`;
+/**
+ * An SVG shown as an image is parsed as XML, where a repeated attribute makes the whole picture
+ * fail (inline in HTML the browser would forgive it). Keeps the last of repeated attributes in each
+ * tag, the one a figure adds on purpose after its defaults.
+ */
+export function strictXml(svg: string): string {
+  return svg.replace(/<([A-Za-z][\w:-]*)((?:\s+[\w:-]+="[^"]*")+)(\s*\/?)>/g, (whole, tag: string, attrs: string, close: string) => {
+    const seen = new Map<string, string>();
+    for (const m of attrs.matchAll(/\s+([\w:-]+)="([^"]*)"/g)) {
+      seen.delete(m[1]!);
+      seen.set(m[1]!, m[2]!);
     }
-  }
-  svg += text(x1, beamY - 6, input.labels.span, p.muted, 'end');
-  const panel = (values: ArrayLike<number>, top: number, height: number, name: string, label: string, markX: number, markV: number, invert: boolean) => {
-    let max = 1e-30;
-    for (let i = 0; i < values.length; i++) max = Math.max(max, Math.abs(values[i]!));
-    const mid = top + height / 2;
-    // Sagging moment is drawn below the axis, as engineers draw it on the tension side.
-    const py = (v: number) => mid - ((invert ? -v : v) / max) * (height / 2);
-    let d = `M${n(sx(input.x[0] ?? 0))} ${n(mid)}`;
-    for (let i = 0; i < input.x.length; i++) d += `L${n(sx(input.x[i]!))} ${n(py(values[i]!))}`;
-    d += `L${n(sx(input.x[input.x.length - 1] ?? input.span))} ${n(mid)}Z`;
-    let s = `<path d="${d}" fill="${p.stress}" fill-opacity="0.8" stroke="${p.stressStroke}" stroke-width="1.1" stroke-linejoin="round"/>`;
-    s += `<line x1="${x0}" y1="${n(mid)}" x2="${x1}" y2="${n(mid)}" stroke="${p.grid}"/>`;
-    s += text(4, mid + 3, name, p.text, 'start', ' font-weight="600"');
-    const mx = sx(markX);
-    const my = py(markV);
-    s += `<circle cx="${n(mx)}" cy="${n(my)}" r="2.5" fill="${p.marker}"/>`;
-    const anchor = mx > (x0 + x1) / 2 ? 'end' : 'start';
-    const ly = my < mid ? Math.max(top + 8, my - 4) : Math.min(top + height + 2, my + 11);
-    s += text(mx + (anchor === 'end' ? -5 : 5), ly, label, p.marker, anchor);
-    return s;
-  };
-  svg += panel(input.V, 38, 58, input.labels.Vname, input.labels.Vmax, input.marks.Vx, input.marks.Vvalue, false);
-  svg += panel(input.M, 108, 58, input.labels.Mname, input.labels.Mmax, input.marks.Mx, input.marks.Mvalue, true);
-  return svg + '</svg>';
+    if (seen.size === (attrs.match(/="/g) ?? []).length) return whole;
+    return `<${tag}${[...seen].map(([k, v]) => ` ${k}="${v}"`).join('')}${close}>`;
+  });
 }
