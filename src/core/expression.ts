@@ -29,35 +29,38 @@ export function tokenize(text: string, base: number, line: number): Token[] {
   }
   const tokens: Token[] = [];
   let i = 0;
-  while (i < text.length) {
-    const c = text[i]!;
-    if (c === ' ' || c === '\t' || c === '\r' || c === '\u00a0') {
+  const n = text.length;
+  while (i < n) {
+    const code = text.charCodeAt(i);
+    if (code === 32 || code === 9 || code === 13 || code === 0xa0) {
       i++;
       continue;
     }
-    if (c === '#') break;
+    if (code === 35 /* # */) break;
     const start = i;
-    if (/[0-9]/.test(c) || (c === '.' && /[0-9]/.test(text[i + 1] ?? ''))) {
-      while (i < text.length && /[0-9_]/.test(text[i]!)) i++;
-      if (text[i] === '.' && /[0-9]/.test(text[i + 1] ?? '')) {
+    if (isDigit(code) || (code === 46 && isDigit(text.charCodeAt(i + 1)))) {
+      while (i < n && (isDigit(text.charCodeAt(i)) || text.charCodeAt(i) === 95)) i++;
+      if (text.charCodeAt(i) === 46 && isDigit(text.charCodeAt(i + 1))) {
         i++;
-        while (i < text.length && /[0-9_]/.test(text[i]!)) i++;
-      } else if (text[i] === '.' && !/[A-Za-z_]/.test(text[i + 1] ?? '')) {
+        while (i < n && (isDigit(text.charCodeAt(i)) || text.charCodeAt(i) === 95)) i++;
+      } else if (text.charCodeAt(i) === 46 && !isNameStart(text.charCodeAt(i + 1))) {
         i++;
       }
-      if (/[eE]/.test(text[i] ?? '') && /^[eE][+-]?[0-9]/.test(text.slice(i, i + 3))) {
+      const e = text.charCodeAt(i);
+      if ((e === 101 || e === 69) && /^[eE][+-]?[0-9]/.test(text.slice(i, i + 3))) {
         i++;
         if (text[i] === '+' || text[i] === '-') i++;
-        while (i < text.length && /[0-9]/.test(text[i]!)) i++;
+        while (i < n && isDigit(text.charCodeAt(i))) i++;
       }
-      tokens.push({ kind: 'number', text: text.slice(start, i).replace(/_/g, ''), start: base + start, end: base + i });
-    } else if (/[A-Za-z_]/.test(c)) {
-      while (i < text.length && /[A-Za-z0-9_]/.test(text[i]!)) i++;
+      const raw = text.slice(start, i);
+      tokens.push({ kind: 'number', text: raw.includes('_') ? raw.replace(/_/g, '') : raw, start: base + start, end: base + i });
+    } else if (isNameStart(code)) {
+      while (i < n && isNamePart(text.charCodeAt(i))) i++;
       tokens.push({ kind: 'name', text: text.slice(start, i), start: base + start, end: base + i });
     } else {
       const op = OPERATORS.find((o) => text.startsWith(o, i));
       if (!op) {
-        throw new NoteError('syntax.character', `The character "${c}" has no meaning here.`, { line, start: base + i, end: base + i + 1 });
+        throw new NoteError('syntax.character', `The character "${text[i]}" has no meaning here.`, { line, start: base + i, end: base + i + 1 });
       }
       i += op.length;
       const normal = op === '·' || op === '×' ? '*' : op === '−' ? '-' : op;
@@ -69,6 +72,16 @@ export function tokenize(text: string, base: number, line: number): Token[] {
   }
   tokens.push({ kind: 'end', text: '', start: base + i, end: base + i });
   return tokens;
+}
+
+function isDigit(c: number): boolean {
+  return c >= 48 && c <= 57;
+}
+function isNameStart(c: number): boolean {
+  return (c >= 65 && c <= 90) || (c >= 97 && c <= 122) || c === 95;
+}
+function isNamePart(c: number): boolean {
+  return isNameStart(c) || isDigit(c);
 }
 
 /** A unit written in an expression: names with integer powers, e.g. kN/m is [kN^1, m^-1]. */

@@ -128,20 +128,20 @@ function readsUnchanged(r: BlockResult, scope: Map<string, Binding>): boolean {
 }
 
 function chooseSystem(blocks: Block[], options: NoteOptions): UnitSystem {
-  for (const b of blocks) {
-    for (const l of b.lines) {
-      const m = /^\s*units\s+(SI|US)\s*(#.*)?$/i.exec(l.text);
-      if (m) return m[1]!.toUpperCase() as UnitSystem;
-    }
-  }
-  if (options.unitSystem && options.unitSystem !== 'auto') return options.unitSystem;
   const names: string[] = [];
   for (const b of blocks) {
     for (const l of b.lines) {
-      const code = l.text.replace(/#.*$/, '');
-      for (const m of code.matchAll(/[0-9.)\s]\s*([A-Za-z]+)/g)) names.push(m[1]!);
+      const t = l.text;
+      if (t.includes('units')) {
+        const m = /^\s*units\s+(SI|US)\s*(#.*)?$/i.exec(t);
+        if (m) return m[1]!.toUpperCase() as UnitSystem;
+      }
+      const hash = t.indexOf('#');
+      const code = hash >= 0 ? t.slice(0, hash) : t;
+      for (const m of code.matchAll(/[0-9)]\s*([A-Za-z]+)/g)) names.push(m[1]!);
     }
   }
+  if (options.unitSystem && options.unitSystem !== 'auto') return options.unitSystem;
   return unitSystemOf(names);
 }
 
