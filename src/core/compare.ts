@@ -9,7 +9,8 @@
  * - blocks by title first (the n-th block titled X to the n-th titled X), then the rest in order,
  *   pairing two blocks only when they share a result name or check (a longest common subsequence),
  *   so inserting a block does not shift every block after it;
- * - values by name; section and beam values member by member (`G2.I`, `B1.Vmax`, `B1.R at 0 m`);
+ * - values by name; section and beam values member by member (`G2.I`, `B1.Vmax`, `B1.R1` = the
+ *   reaction at the leftmost support);
  * - checks by their text (the n-th identical text to the n-th).
  * Two numbers are equal when they agree to 1 part in 10⁹ (float noise is not a change).
  */
@@ -30,7 +31,7 @@ export interface Rename {
 }
 
 export interface ValueChange {
-  /** `V`, or a member of a section or beam value: `G2.I`, `B1.Vmax`, `B1.R at 0 m`. */
+  /** `V`, or a member of a section or beam value: `G2.I`, `B1.Vmax`, `B1.R1` (reactions numbered from the left). */
   name: string;
   /** moved: the number changed; added/removed: the value is new or gone; unit: it now measures something else. */
   kind: 'moved' | 'added' | 'removed' | 'unit';
@@ -148,8 +149,9 @@ export function compareVersions(before: readonly NoteSnapshot[], after: readonly
     if (n.status === 'removed') summary.removedNotes++;
     if (n.status === 'renamed') summary.renamedNotes++;
     for (const b of n.blocks) {
-      if (b.status === 'added') summary.addedBlocks++;
-      if (b.status === 'removed') summary.removedBlocks++;
+      // Blocks of a whole added or removed note are counted as that note, not again as blocks.
+      if (b.status === 'added' && n.status !== 'added') summary.addedBlocks++;
+      if (b.status === 'removed' && n.status !== 'removed') summary.removedBlocks++;
       for (const v of b.values) if (v.kind === 'moved' || v.kind === 'unit') summary.movedValues++;
       for (const c of b.checks) {
         if (c.kind === 'status' && c.newPass === false) summary.newlyFailing++;
@@ -317,12 +319,18 @@ function members(name: string, v: JsonValue, system: UnitSystem): Member[] {
     return [m('A', v.A, DIM.area, 'm^2'), m('I', v.I, DIM.quartic, 'm^4'), m('yc', v.yc, DIM.length, 'm'), m('depth', v.depth, DIM.length, 'm')];
   }
   const out = [m('Vmax', v.Vmax, DIM.force, 'N'), m('Mmax', v.Mmax, DIM.moment, 'N*m'), m('Mmin', v.Mmin, DIM.moment, 'N*m')];
-  for (const r of v.reactions) {
-    const at = shown(r.x, DIM.length, system);
-    out.push({ name: `${name}.R at ${at}`, si: r.R, unit: 'N', text: shown(r.R, DIM.force, system) });
-    if (r.M !== undefined) out.push({ name: `${name}.M at ${at}`, si: r.M, unit: 'N*m', text: shown(r.M, DIM.moment, system) });
-  }
+  // Reactions by support order (R1 the leftmost), so a changed span moves numbers rather than renaming them.
+  [...v.reactions].sort((p, q) => p.x - q.x).forEach((r, i) => {
+    const at = position(r.x, system);
+    out.push({ name: `${name}.R${i + 1}`, si: r.R, unit: 'N', text: `${shown(r.R, DIM.force, system)} at ${at}` });
+    if (r.M !== undefined) out.push({ name: `${name}.M${i + 1}`, si: r.M, unit: 'N*m', text: `${shown(r.M, DIM.moment, system)} at ${at}` });
+  });
   return out;
+}
+
+/** A position along a beam: metres (feet in US notes), as spans are written. */
+function position(x: number, system: UnitSystem): string {
+  return system === 'US' ? `${formatNumber(x / 0.3048)} ft` : `${formatNumber(x)} m`;
 }
 
 function shown(si: number, dim: Dimension, system: UnitSystem): string {
