@@ -28,7 +28,7 @@ export function presenter(a: NoteAnalysis, settings: ServerSettings): Presenter 
     sig,
     q,
     length: (m: number) => q(quantity(m, DIM.length)),
-    value: (v: Value) => (v.kind === 'quantity' ? q(v) : v.kind === 'section' ? `section ${v.name}` : v.kind === 'beam' ? `beam ${v.name}` : v.side),
+    value: (v: Value) => (v.kind === 'quantity' ? q(v) : v.kind === 'section' ? `section ${v.name}` : v.kind === 'beam' ? `beam ${v.name}` : v.kind === 'side' ? v.side : `${v.name} (not evaluated)`),
   };
 }
 
