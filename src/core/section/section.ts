@@ -162,12 +162,22 @@ export interface Section {
 
 /** Heights closer than this fraction of the depth are one height (rounding in stacked dimensions). */
 const HEIGHT_MERGE = 1e-11;
-/** A queried height within this fraction of the depth of a breakpoint or an edge is taken to be on it. */
-const HEIGHT_SNAP = 1e-9;
+/**
+ * A queried height within this fraction of the depth of a breakpoint or an edge is taken to be on it,
+ * so a height typed in other units (a junction at 6.2 in) lands on the junction the geometry has
+ * (one rounding away) and reads its governing side.
+ */
+const HEIGHT_SNAP = HEIGHT_MERGE;
 /** Widths below this fraction of the widest chord are no material (cancellation noise). */
 const WIDTH_ZERO = 1e-10;
-/** Candidate maxima within this relative distance of the largest are reported as ties. */
-const TIE = 1e-9;
+/**
+ * Candidate maxima within this relative distance of the largest are reported as ties (a diamond's
+ * two peaks). It must be far below the fall-off of a parabolic peak a hair away from its top, which
+ * is how a breakpoint next to the neutral axis looks.
+ */
+const TIE = 1e-12;
+/** Tied candidates closer than this fraction of the depth are one location. */
+const SAME_LOCATION = 1e-7;
 /** Sub-intervals used to bracket the roots of d(Q/t)/dy on slabs that contain circular arcs. */
 const ARC_BRACKETS = 32;
 
@@ -738,13 +748,18 @@ class ShearSection implements Section {
           const t = this.rawWidth(k, y);
           return t * t * (y - yc) + this.QAt(y, k) * this.widthSlope(k, y);
         };
-        let prevY = NaN, prevG = NaN;
-        for (let j = 0; j < ARC_BRACKETS; j++) {
-          // Chebyshev nodes crowd toward the slab ends, where an arc's width changes fastest.
-          const y = y0 + (L * (1 - Math.cos(((j + 0.5) * Math.PI) / ARC_BRACKETS))) / 2;
-          const gy = g(y);
+        // Brackets: the slab ends and Chebyshev nodes between them, which crowd toward the ends where an
+        // arc's width changes fastest. At an arc's own end t' is unbounded; only the sign of g is needed there.
+        const gSafe = (y: number) => {
+          const v = g(y);
+          return Number.isFinite(v) ? v : Number.isNaN(v) ? 0 : Math.sign(v) * Number.MAX_VALUE;
+        };
+        let prevY = y0, prevG = gSafe(y0);
+        for (let j = 0; j <= ARC_BRACKETS; j++) {
+          const y = j < ARC_BRACKETS ? y0 + (L * (1 - Math.cos(((j + 0.5) * Math.PI) / ARC_BRACKETS))) / 2 : H[k + 1];
+          const gy = gSafe(y);
           if (gy === 0) interior(k, y);
-          else if (j > 0 && prevG !== 0 && gy > 0 !== prevG > 0) interior(k, brent(g, prevY, y, prevG, gy));
+          else if (prevG !== 0 && gy > 0 !== prevG > 0) interior(k, brent(gSafe, prevY, y, prevG, gy));
           prevY = y;
           prevG = gy;
         }
@@ -752,14 +767,15 @@ class ShearSection implements Section {
     }
     let best = 0;
     for (const c of candidates) best = Math.max(best, c.f);
-    const locations: TauMaxLocation[] = [];
-    const sameHeight = HEIGHT_SNAP * this.depth;
+    const groups: (typeof candidates)[number][] = [];
+    const sameHeight = SAME_LOCATION * this.depth;
     for (const c of candidates.filter((c) => c.f >= best * (1 - TIE)).sort((a, b) => a.y - b.y)) {
-      const last = locations[locations.length - 1];
-      if (last && c.y - last.y <= sameHeight) continue;
-      locations.push({ y: c.y, width: c.width, firstMoment: c.Q });
+      const last = groups[groups.length - 1];
+      if (last && c.y - last.y <= sameHeight) {
+        if (c.f > last.f) groups[groups.length - 1] = c;
+      } else groups.push(c);
     }
-    return { perV: best / this.I, locations };
+    return { perV: best / this.I, locations: groups.map((c) => ({ y: c.y, width: c.width, firstMoment: c.Q })) };
   }
 
   profile(n = 101): TauProfile {
