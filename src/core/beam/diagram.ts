@@ -6,6 +6,7 @@
  */
 
 import { type LoadSet, loadMagnitude } from './loads';
+import { SAME_SECTION_FRACTION } from './positions';
 import type { SupportReactions } from './reactions';
 import type {
   BeamDiagramData,
@@ -21,10 +22,13 @@ import type {
   ZeroShear,
 } from './types';
 
-/** Positions closer than this fraction of the span are one section. */
-const MERGE_FRACTION = 1e-12;
-/** Look-ups by x (shear at a support, reaction at x) accept this fraction of the span. */
-export const LOOKUP_FRACTION = 1e-9;
+/**
+ * Readings by x (shear at a support, reaction at x) match a section within this fraction of the
+ * span. Positions were already gathered into sections at least this far apart (./positions.ts).
+ */
+export const LOOKUP_FRACTION = SAME_SECTION_FRACTION;
+/** Breaks closer than this are one break; after gathering, only rounding can bring them this close. */
+const MERGE_FRACTION = 1e-14;
 /** Values below this fraction of the beam's force scale are rounding noise and read as zero. */
 const ZERO_FRACTION = 1e-12;
 
@@ -54,6 +58,8 @@ export function buildDiagram(
 ): DiagramContent {
   let forceScale = loadMagnitude(loads, span);
   for (let s = 0; s < supportX.length; s++) forceScale += Math.abs(reactions.R[s]!) + Math.abs(reactions.M[s]!) / span;
+  // A floor far below any real force keeps the zero tests meaningful for subnormal inputs.
+  forceScale = Math.max(forceScale, 1e-250);
   const zeroShear = ZERO_FRACTION * forceScale;
   const zeroMoment = zeroShear * span;
   const snapV = (v: number): number => (Math.abs(v) <= zeroShear ? 0 : v);
@@ -259,9 +265,14 @@ export function quadraticRootsIn(c2: number, c1: number, c0: number, length: num
     }
   }
   const roots: number[] = [];
+  const value = (t: number): number => c0 + t * (c1 + t * c2);
   for (let t of candidates) {
     const slope = c1 + 2 * c2 * t;
-    if (slope !== 0) t -= (c0 + t * (c1 + t * c2)) / slope;
+    if (slope !== 0) {
+      // Near a double root the slope vanishes and a Newton step can throw t far away.
+      const polished = t - value(t) / slope;
+      if (Math.abs(value(polished)) < Math.abs(value(t))) t = polished;
+    }
     if (!(t >= -tolerance && t <= length + tolerance)) continue;
     t = Math.min(Math.max(t, 0), length);
     if (!roots.some((r) => Math.abs(r - t) <= tolerance)) roots.push(t);
@@ -274,7 +285,10 @@ function dedupeZeros(zeros: ZeroShear[], tolerance: number): ZeroShear[] {
   const kept: ZeroShear[] = [];
   for (const zero of zeros) {
     const previous = kept[kept.length - 1];
-    if (previous && zero.kind !== 'interval' && zero.x - (previous.end ?? previous.x) <= tolerance) continue;
+    if (previous && zero.x - (previous.end ?? previous.x) <= tolerance) {
+      if (zero.kind !== 'interval') continue;
+      if (previous.kind !== 'interval') kept.pop();
+    }
     kept.push(zero);
   }
   return kept;

@@ -9,6 +9,7 @@
  */
 
 import { type LoadSet, emptyLoadSet } from './loads';
+import { ANCHOR, type Anchor, SAME_SECTION_FRACTION, sectionSnapper } from './positions';
 import {
   type BeamInput,
   type BeamProblem,
@@ -20,8 +21,11 @@ import {
 
 export const LIMITS = { supports: 1000, loads: 5000, combinations: 500, factors: 200 } as const;
 
-/** Positions within this fraction of the span are the same position. */
-const SAME_POSITION_FRACTION = 1e-9;
+/**
+ * Supports closer than this fraction of the span are one support given twice. Closer supports
+ * would also leave the stiffness equations too badly conditioned to trust.
+ */
+const SAME_SUPPORT_FRACTION = 1e-6;
 
 export interface CheckedSupport<Tag> {
   kind: SupportKind;
@@ -92,7 +96,7 @@ export function checkBeam<Tag>(input: BeamInput<Tag>): { beam?: CheckedBeam<Tag>
     return { problems };
   }
 
-  const slack = SAME_POSITION_FRACTION * span;
+  const slack = SAME_SECTION_FRACTION * span;
   /** Checks a position on the beam; returns it clamped to [0, span], or undefined after a problem. */
   const position = (value: unknown, what: string, tag: Tag | undefined): number | undefined => {
     if (typeof value !== 'number') {
@@ -139,10 +143,10 @@ export function checkBeam<Tag>(input: BeamInput<Tag>): { beam?: CheckedBeam<Tag>
   }
   supports.sort((a, b) => a.x - b.x);
   for (let i = 1; i < supports.length; i++) {
-    if (supports[i]!.x - supports[i - 1]!.x <= slack) {
+    if (supports[i]!.x - supports[i - 1]!.x <= SAME_SUPPORT_FRACTION * span) {
       error(
         'beam.duplicate-support',
-        `Two supports are at ${metres(supports[i]!.x)}; give each position one support (use fixed for a support that also holds rotation).`,
+        `Two supports are at ${metres(supports[i]!.x)}${supports[i]!.x === supports[i - 1]!.x ? '' : ' (less than a millionth of the span apart)'}; give each position one support (use fixed for a support that also holds rotation).`,
         supports[i]!.tag,
       );
       supportsOk = false;
@@ -235,6 +239,8 @@ export function checkBeam<Tag>(input: BeamInput<Tag>): { beam?: CheckedBeam<Tag>
     }
   }
 
+  if (!problems.some((p) => p.severity === 'error')) snapToSections(span, supports, groupLoads);
+
   const combinations: (CheckedCombination & { tag?: Tag })[] = [];
   const named = new Set<string>();
   const seenNames = new Set<string>();
@@ -305,6 +311,37 @@ export function checkBeam<Tag>(input: BeamInput<Tag>): { beam?: CheckedBeam<Tag>
 
   if (problems.some((p) => p.severity === 'error')) return { problems };
   return { beam: { span, supports, groups, groupLoads, combinations }, problems };
+}
+
+/**
+ * Moves every position to the section that stands for it (see ./positions.ts). A line load left
+ * shorter than a section acts as its resultant at that section.
+ */
+function snapToSections<Tag>(span: number, supports: CheckedSupport<Tag>[], groupLoads: Map<string, LoadSet>): void {
+  const positions: { x: number; anchor: Anchor }[] = [
+    { x: 0, anchor: ANCHOR.end },
+    { x: span, anchor: ANCHOR.end },
+    ...supports.map((s) => ({ x: s.x, anchor: ANCHOR.support })),
+  ];
+  for (const set of groupLoads.values()) {
+    for (const p of set.points) positions.push({ x: p.x, anchor: ANCHOR.load });
+    for (const c of set.couples) positions.push({ x: c.x, anchor: ANCHOR.load });
+    for (const l of set.lines) positions.push({ x: l.x1, anchor: ANCHOR.load }, { x: l.x2, anchor: ANCHOR.load });
+  }
+  const snap = sectionSnapper(positions, SAME_SECTION_FRACTION * span);
+  for (const s of supports) s.x = snap(s.x);
+  for (const set of groupLoads.values()) {
+    for (const p of set.points) p.x = snap(p.x);
+    for (const c of set.couples) c.x = snap(c.x);
+    const lines = set.lines;
+    set.lines = [];
+    for (const l of lines) {
+      const x1 = snap(l.x1);
+      const x2 = snap(l.x2);
+      if (x2 > x1) set.lines.push({ ...l, x1, x2 });
+      else set.points.push({ x: x1, P: 0.5 * (l.w1 + l.w2) * (l.x2 - l.x1) });
+    }
+  }
 }
 
 export function metres(x: number): string {
