@@ -137,12 +137,8 @@ export function makePolygon(xs: ArrayLike<number>, ys: ArrayLike<number>, tag?: 
     twiceArea += (px[i] - px[0]) * (py[i + 1] - py[0]) - (px[i + 1] - px[0]) * (py[i] - py[0]);
   }
   const boxArea = (maxX - minX) * (maxY - minY);
-  if (!(boxArea > 0) || Math.abs(twiceArea) / 2 <= 1e-12 * boxArea) {
+  if (!(boxArea > 0) || allOnOneLine(px, py)) {
     return { problems: [problem('section.zero-area', 'The polygon encloses no area: its vertices lie on one line.', tag)] };
-  }
-  if (twiceArea < 0) {
-    px.reverse();
-    py.reverse();
   }
   const crossing = findSelfIntersection(px, py);
   if (crossing !== undefined) {
@@ -156,7 +152,28 @@ export function makePolygon(xs: ArrayLike<number>, ys: ArrayLike<number>, tag?: 
       ],
     };
   }
+  if (Math.abs(twiceArea) / 2 <= 1e-12 * boxArea) {
+    return { problems: [problem('section.zero-area', 'The polygon encloses no area.', tag)] };
+  }
+  if (twiceArea < 0) {
+    px.reverse();
+    py.reverse();
+  }
   return { polygon: { kind: 'polygon', xs: Float64Array.from(px), ys: Float64Array.from(py) }, problems: [] };
+}
+
+/** Whether every vertex lies on the line through the first vertex and the one farthest from it. */
+function allOnOneLine(px: number[], py: number[]): boolean {
+  let far = 0, farD = 0;
+  for (let i = 1; i < px.length; i++) {
+    const d = (px[i] - px[0]) ** 2 + (py[i] - py[0]) ** 2;
+    if (d > farD) [far, farD] = [i, d];
+  }
+  const ux = px[far] - px[0], uy = py[far] - py[0];
+  for (let i = 1; i < px.length; i++) {
+    if (Math.abs(ux * (py[i] - py[0]) - uy * (px[i] - px[0])) > 1e-12 * farD) return false;
+  }
+  return true;
 }
 
 export interface CircleResult {
