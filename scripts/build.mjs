@@ -33,3 +33,4 @@ await Promise.all(
     ),
 );
 console.log('built', targets.filter((t) => existsSync(t.entry)).map((t) => t.outfile).join(', '));
+await import('./copy-media.mjs');
