@@ -342,3 +342,27 @@ describe('closed-form results (statically indeterminate beams)', () => {
     expectClose(d.reactions[1]!.R, (3 * M0) / (2 * L));
   });
 });
+
+describe('REFERENCES §2 E10: AISC Design Examples v15.0, Example G.1A, factored end shear [R]', () => {
+  // End shears 48 kips dead and 145 kips live; the span is not part of the check.
+  const kip = 4448.2216152605;
+  const span = 9;
+  const beam = solveBeam({
+    span,
+    supports: [pin(0), roller(span)],
+    loads: [
+      { kind: 'udl', w: (2 * 48 * kip) / span, x1: 0, x2: span, group: 'dead' },
+      { kind: 'udl', w: (2 * 145 * kip) / span, x1: 0, x2: span, group: 'live' },
+    ],
+    combinations: [
+      { name: 'LRFD', factors: [{ group: 'dead', factor: 1.2 }, { group: 'live', factor: 1.6 }] },
+      { name: 'ASD', factors: [{ group: 'dead', factor: 1 }, { group: 'live', factor: 1 }] },
+    ],
+  }).beam!;
+  it('V_u = 1.2·48 + 1.6·145 = 290 kips governs; V_a = 193 kips', () => {
+    expectClose(beam.Vmax, 290 * kip, PUBLISHED);
+    expect(beam.envelope.Vmax.combination).toBe('LRFD');
+    expectClose(Math.abs(beam.combination('ASD')!.Vmax.V), 193 * kip, PUBLISHED);
+    expectClose(beam.loadCase('dead')!.reactions[0]!.R, 48 * kip);
+  });
+});

@@ -1,8 +1,8 @@
 /**
  * Shear and moment diagrams of a beam whose reactions are known, built by statics from the left
  * end as exact piecewise polynomials, with their extremes, zero-shear points and jumps, and the
- * functions that read them. Everything here works on plain data so that results survive JSON or
- * structured cloning; {@link BeamDiagram} only adds methods on top.
+ * functions that read them. Everything here works on plain data so that results survive structured
+ * cloning (Float64Array coefficients do not survive JSON); {@link BeamDiagram} only adds methods.
  */
 
 import { type LoadSet, loadMagnitude } from './loads';
@@ -168,7 +168,9 @@ export function buildDiagram(
   for (let k = 0; k < pieceCount; k++) {
     const piece = pieces[k]!;
     const length = piece.x1 - piece.x0;
-    const [V0, c1, c2] = piece.shear as unknown as [number, number, number];
+    const V0 = piece.shear[0]!;
+    const c1 = piece.shear[1]!;
+    const c2 = piece.shear[2]!;
     offerShear(V0, piece.x0, shearJumps[k] ? 'right' : undefined);
     offerMoment(piece.moment[0]!, piece.x0, momentJumps[k] ? 'right' : undefined);
     offerShear(shearLeft[k + 1]!, piece.x1, shearJumps[k + 1] ? 'left' : undefined);
@@ -451,10 +453,12 @@ export class BeamDiagram<Tag = unknown> implements BeamDiagramData<Tag> {
     this.zeroShear = fields.zeroShear;
   }
 
+  /** V at x; where V jumps, the side asked for, else the side with the larger magnitude. */
   shear(x: number, side?: Side): number {
     return shearAt(this, x, side);
   }
 
+  /** M at x; where an applied couple makes M jump, the side asked for, else the larger magnitude. */
   moment(x: number, side?: Side): number {
     return momentAt(this, x, side);
   }

@@ -119,8 +119,15 @@ export class BeamResult<Tag = unknown> {
 type MethodNames = 'shear' | 'governingShear' | 'moment' | 'momentRange' | 'reaction' | 'sample' | 'loadCase' | 'combination';
 
 /**
- * Solves a beam. Never throws: anything wrong with the input comes back in `problems`, and a
- * result is given only when no problem is an error. No number in a result is NaN or infinite.
+ * Solves a straight prismatic beam under vertical loads. Input and output are SI (N, m, N/m, N·m).
+ *
+ * Sign convention (full text in {@link SIGN_CONVENTION}, details in ./types.ts): x from the left
+ * end; loads positive downward; applied moments positive clockwise; reactions positive upward and
+ * fixed-support reaction couples positive counterclockwise; V positive when the forces left of the
+ * section resolve upward; M positive sagging; so dM/dx = V and dV/dx = −w.
+ *
+ * Never throws: anything wrong with the input comes back in `problems`, and a result is given only
+ * when no problem is an error. No number in a result is NaN or infinite.
  */
 export function solveBeam<Tag = unknown>(input: BeamInput<Tag>, options: SolveOptions = {}): BeamSolution<Tag> {
   try {

@@ -152,7 +152,10 @@ export interface DiagramPiece {
   moment: Float64Array;
 }
 
-/** A section where V or M is discontinuous; "left" and "right" are the values either side. */
+/**
+ * A section where V or M is discontinuous; "left" and "right" are the values either side. The beam
+ * ends are listed when a reaction, load or couple acts there: outside the beam V = M = 0.
+ */
 export interface DiagramJump {
   x: number;
   shearLeft: number;
@@ -200,7 +203,7 @@ export interface DiagramSamples {
   M: Float64Array;
 }
 
-/** Plain-data content of one solved load set; works after JSON or structured cloning. */
+/** Plain-data content of one solved load set; survives structured cloning (postMessage, workers). */
 export interface BeamDiagramData<Tag = unknown> {
   /** Group name for a load case, combination name for a combination. */
   name: string;
