@@ -42,6 +42,8 @@ const PREVIEW_BLOCK_BUDGET_MS = 1000;
 const SOURCE_META = 'taulineSource';
 
 interface RenderState {
+  /** The settings the evaluation was made with: cached tokens re-rendered under new settings evaluate again. */
+  settings: string;
   result?: NoteResult;
   byFenceLine: Map<number, BlockResult>;
   lastFenceLine: number;
@@ -103,8 +105,11 @@ export function shearPlugin(md: MarkdownIt, options: ShearPluginOptions = {}): v
   });
 
   const stateFor = (tokens: Token[], env: unknown): RenderState => {
+    const evaluated = options.evaluate ? safeBoolean(() => options.evaluate!(env)) : true;
+    const noteOptions: NoteOptions = { blockBudgetMs: PREVIEW_BLOCK_BUDGET_MS, ...options.note };
+    const settings = `${evaluated}|${JSON.stringify(noteOptions)}`;
     let s = states.get(tokens);
-    if (s) return s;
+    if (s && s.settings === settings) return s;
     let lastFenceLine = -1;
     let src: string | undefined;
     for (const t of tokens) {
@@ -113,11 +118,9 @@ export function shearPlugin(md: MarkdownIt, options: ShearPluginOptions = {}): v
         src ??= typeof t.meta?.[SOURCE_META] === 'string' ? (t.meta[SOURCE_META] as string) : undefined;
       }
     }
-    const evaluated = options.evaluate ? safeBoolean(() => options.evaluate!(env)) : true;
-    s = { byFenceLine: new Map(), lastFenceLine, budget: defaultBudget(), evaluated };
+    s = { settings, byFenceLine: new Map(), lastFenceLine, budget: defaultBudget(), evaluated };
     if (evaluated) {
       const text = src ?? sourceFromTokens(tokens);
-      const noteOptions: NoteOptions = { blockBudgetMs: PREVIEW_BLOCK_BUDGET_MS, ...options.note };
       try {
         s.result = evaluateNote(text, noteOptions, cacheFor(env));
         for (const b of s.result.blocks) s.byFenceLine.set(b.block.fenceLine, b);
