@@ -111,6 +111,90 @@ function boxesOverlap(a: Box, b: Box, tol: number): boolean {
   return Math.min(a.maxX, b.maxX) - Math.max(a.minX, b.minX) > tol && Math.min(a.maxY, b.maxY) - Math.max(a.minY, b.minY) > tol;
 }
 
+/** Whether a counter-clockwise polygon is convex (collinear vertices allowed). */
+function isConvex(xs: Float64Array, ys: Float64Array): boolean {
+  const n = xs.length;
+  for (let i = 0; i < n; i++) {
+    const j = (i + 1) % n, k = (i + 2) % n;
+    if ((xs[j] - xs[i]) * (ys[k] - ys[j]) - (ys[j] - ys[i]) * (xs[k] - xs[j]) < 0) return false;
+  }
+  return true;
+}
+
+/**
+ * Whether `inner` lies inside the convex primitive `outer`, with `margin` to spare (a negative
+ * margin lets it touch, or poke out by rounding). Exact geometry: no clipping needed.
+ */
+function convexContains(outer: Primitive, inner: Primitive, margin: number): boolean {
+  if (outer.kind === 'circle') {
+    const reach = outer.r - margin;
+    if (inner.kind === 'circle') return Math.hypot(inner.cx - outer.cx, inner.cy - outer.cy) + inner.r <= reach;
+    for (let i = 0; i < inner.xs.length; i++) if (Math.hypot(inner.xs[i] - outer.cx, inner.ys[i] - outer.cy) > reach) return false;
+    return true;
+  }
+  const { xs, ys } = outer;
+  const n = xs.length;
+  for (let e = 0; e < n; e++) {
+    const f = (e + 1) % n;
+    const ex = xs[f] - xs[e], ey = ys[f] - ys[e];
+    const len = Math.hypot(ex, ey);
+    if (len === 0) continue;
+    // Signed distance to the left of edge e (the inside of a counter-clockwise polygon).
+    const inside = (px: number, py: number) => (ex * (py - ys[e]) - ey * (px - xs[e])) / len;
+    if (inner.kind === 'circle') {
+      if (inside(inner.cx, inner.cy) < inner.r + margin) return false;
+    } else {
+      for (let i = 0; i < inner.xs.length; i++) if (inside(inner.xs[i], inner.ys[i]) < margin) return false;
+    }
+  }
+  return true;
+}
+
+/** The single solid primitive of a part when it is convex (a plate, a circle, the outside of a box or tube). */
+function convexSolid(part: Part): Primitive | undefined {
+  const solids = part.filter((p) => p.sign > 0);
+  if (solids.length !== 1) return undefined;
+  const s = solids[0].shape;
+  return s.kind === 'circle' || isConvex(s.xs, s.ys) ? s : undefined;
+}
+
+/** An axis-aligned rectangle part with no voids, as its box. */
+function rectangleOf(part: Part): Box | undefined {
+  if (part.length !== 1 || part[0].sign < 0 || part[0].shape.kind !== 'polygon') return undefined;
+  const { xs, ys } = part[0].shape;
+  if (xs.length !== 4) return undefined;
+  for (let i = 0; i < 4; i++) {
+    const j = (i + 1) % 4;
+    if (xs[i] !== xs[j] && ys[i] !== ys[j]) return undefined;
+  }
+  return boxOf(part);
+}
+
+/** Whether rectangles (given as indices into boxes) form one piece, joined along edges of positive length. */
+function rectanglesConnected(boxes: Box[], tol: number): boolean {
+  const n = boxes.length;
+  const seen = new Uint8Array(n);
+  const stack = [0];
+  seen[0] = 1;
+  let count = 1;
+  const shareEdge = (a: Box, b: Box) => {
+    const ox = Math.min(a.maxX, b.maxX) - Math.max(a.minX, b.minX);
+    const oy = Math.min(a.maxY, b.maxY) - Math.max(a.minY, b.minY);
+    return (ox > tol && Math.abs(oy) <= tol) || (oy > tol && Math.abs(ox) <= tol);
+  };
+  while (stack.length) {
+    const i = stack.pop()!;
+    for (let j = 0; j < n; j++) {
+      if (!seen[j] && shareEdge(boxes[i], boxes[j])) {
+        seen[j] = 1;
+        count++;
+        stack.push(j);
+      }
+    }
+  }
+  return count === n;
+}
+
 /**
  * Geometry problems of a list of parts: a part's voids outside its solids, overlapping solid
  * parts, holes not fully inside material, overlapping holes (all errors); material in more than
@@ -132,6 +216,8 @@ export function validateLayout(items: readonly ValidationItem[], areas: readonly
     // A part's own voids must lie inside its own solids (guaranteed by the shape constructors; parts can also be built by hand).
     items.forEach((it, i) => {
       if (!it.part.some((p) => p.sign < 0)) return;
+      const convex = convexSolid(it.part);
+      if (convex && it.part.every((p) => p.sign > 0 || convexContains(convex, p.shape, -boxTol))) return;
       const voids = it.part.filter((p) => p.sign < 0).map((p) => [ring(p.shape, frame, 'small')] as ClipPolygon);
       const solids = it.part.filter((p) => p.sign > 0).map((p) => [ring(p.shape, frame, 'large')] as ClipPolygon);
       if (solids.length === 0) {
@@ -174,10 +260,26 @@ export function validateLayout(items: readonly ValidationItem[], areas: readonly
       }
     }
 
+    // Holes lying wholly inside one convex solid part, clear of its voids: decided exactly, without clipping.
+    const convexSolids = new Map<number, Primitive | undefined>(solidIdx.map((i) => [i, convexSolid(items[i].part)]));
+    const holeHost = (h: number, margin: number): number | undefined => {
+      const own = items[h].part.filter((p) => p.sign > 0);
+      for (const j of solidIdx) {
+        const host = convexSolids.get(j);
+        if (!host || !own.every((p) => convexContains(host, p.shape, margin))) continue;
+        const voids = items[j].part.filter((p) => p.sign < 0);
+        if (voids.every((v) => !boxesOverlap(boxOf([v]), boxes[h], -margin))) return j;
+      }
+      return undefined;
+    };
     if (holeIdx.length) {
-      const large = solidIdx.map((i) => region(items[i].part, frame, 'large')).filter((r) => r.length > 0);
-      const material: MultiPolygon = large.length === 0 ? [] : large.length === 1 ? large[0] : polygonClipping.union(large[0], ...large.slice(1));
+      let material: MultiPolygon | undefined;
       for (const h of holeIdx) {
+        if (holeHost(h, -boxTol) !== undefined) continue;
+        if (!material) {
+          const large = solidIdx.map((i) => region(items[i].part, frame, 'large')).filter((r) => r.length > 0);
+          material = large.length === 0 ? [] : large.length === 1 ? large[0] : polygonClipping.union(large[0], ...large.slice(1));
+        }
         const hole = smallRegion(h);
         const outside = material.length ? multiPolygonArea(polygonClipping.difference(hole, material)) : multiPolygonArea(hole);
         const holeArea = toFrameArea(Math.abs(areas[h]));
@@ -196,6 +298,11 @@ export function validateLayout(items: readonly ValidationItem[], areas: readonly
         for (let ii = 0; ii < jj; ii++) {
           const i = holeIdx[ii];
           if (!boxesOverlap(boxes[i], boxes[j], boxTol)) continue;
+          const a = items[i].part, b = items[j].part;
+          if (a.length === 1 && b.length === 1 && a[0].shape.kind === 'circle' && b[0].shape.kind === 'circle') {
+            const ca = a[0].shape, cb = b[0].shape;
+            if (Math.hypot(ca.cx - cb.cx, ca.cy - cb.cy) >= ca.r + cb.r - boxTol) continue;
+          }
           const shared = multiPolygonArea(polygonClipping.intersection(smallRegion(i), smallRegion(j)));
           if (shared > RELATIVE_AREA_TOLERANCE * toFrameArea(Math.min(Math.abs(areas[i]), Math.abs(areas[j])))) {
             problems.push(problem('section.hole-overlap', `This hole overlaps hole ${holeIdx.indexOf(i) + 1}; draw them as one hole or move them apart.`, items[j].tag));
@@ -207,7 +314,15 @@ export function validateLayout(items: readonly ValidationItem[], areas: readonly
     if (problems.length) return problems;
 
     // One piece? Only worth asking when there is more than one part or a hole could cut a part in two.
-    if (items.length > 1) {
+    // Rectangles joined edge to edge (a welded or glued built-up member), with any holes strictly inside one
+    // convex part, are one piece; only other layouts need the union.
+    const rectangles = solidIdx.map((i) => rectangleOf(items[i].part));
+    const simple =
+      rectangles.every((r) => r !== undefined) &&
+      rectanglesConnected(rectangles as Box[], boxTol) &&
+      holeIdx.every((h) => holeHost(h, 1e-9 * scale) !== undefined) &&
+      holeIdx.every((h, k) => holeIdx.slice(0, k).every((g) => !boxesOverlap(boxes[g], boxes[h], -1e-9 * scale)));
+    if (items.length > 1 && !simple) {
       const solidRegions = solidIdx.map((i) => smallRegion(i)).filter((r) => r.length > 0);
       const holeRegions = holeIdx.map((i) => smallRegion(i)).filter((r) => r.length > 0);
       let net: MultiPolygon = solidRegions.length === 1 ? solidRegions[0] : polygonClipping.union(solidRegions[0], ...solidRegions.slice(1));

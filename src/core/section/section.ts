@@ -311,6 +311,7 @@ class ShearSection implements Section {
   private readonly flat: Flat[];
   private readonly inputs: SectionInput[];
   private maxCache?: { perV: number; locations: TauMaxLocation[]; problem?: SectionProblem };
+  private breakCache?: Breakpoint[];
 
   constructor(flat: Flat[], inputs: SectionInput[]) {
     this.flat = flat;
@@ -780,39 +781,59 @@ class ShearSection implements Section {
 
   profile(n = 101): TauProfile {
     const count = Number.isFinite(n) ? Math.max(2, Math.min(100_000, Math.floor(n))) : 101;
-    const H = this.H, depth = this.depth;
-    type Sample = { y: number; order: number; tau: number; width: number };
-    const samples: Sample[] = [];
-    const push = (y: number, order: number, width: number, Q: number) =>
-      samples.push({ y, order, width, tau: width > 0 ? Q / (this.I * width) : 0 });
-    for (const b of this.breakpoints()) {
-      push(b.y, 0, b.widthBelow, b.firstMoment);
-      push(b.y, 2, b.widthAbove, b.firstMoment);
-    }
-    const m = this.maxCache ?? (this.maxCache = this.findMax());
-    for (const l of m.locations) push(l.y, 1, l.width, l.firstMoment);
+    const depth = this.depth, I = this.I;
+    const breaks = this.breakpointList();
+    const peaks = (this.maxCache ??= this.findMax()).locations;
+    const cap = count + 2 * breaks.length + peaks.length;
+    const ys = new Float64Array(cap), taus = new Float64Array(cap), widths = new Float64Array(cap);
+    let m = 0;
+    const emit = (y: number, width: number, Q: number) => {
+      ys[m] = y;
+      widths[m] = width;
+      taus[m] = width > 0 ? Q / (I * width) : 0;
+      m++;
+    };
+    // Merge three ascending lists: breakpoints (both sides, so jumps draw as jumps), the peaks, even samples.
+    let ib = 0, ip = 0;
+    let lastExact = -Infinity;
+    const flushTo = (limit: number) => {
+      for (;;) {
+        const yb = ib < breaks.length ? breaks[ib].y : Infinity;
+        const yp = ip < peaks.length ? peaks[ip].y : Infinity;
+        if (ib === breaks.length && ip === peaks.length) return;
+        if (Math.min(yb, yp) > limit) return;
+        if (yp < yb) {
+          emit(yp, peaks[ip].width, peaks[ip].firstMoment);
+          lastExact = yp;
+          ip++;
+          continue;
+        }
+        const b = breaks[ib++];
+        emit(b.y, b.widthBelow, b.firstMoment);
+        while (ip < peaks.length && peaks[ip].y === b.y) emit(b.y, peaks[ip].width, peaks[ip++].firstMoment);
+        emit(b.y, b.widthAbove, b.firstMoment);
+        lastExact = b.y;
+      }
+    };
     const tol = HEIGHT_SNAP * depth;
     for (let i = 0; i < count; i++) {
-      const y = (depth * i) / (count - 1);
+      const y = i === count - 1 ? depth : (depth * i) / (count - 1);
+      flushTo(y);
+      const next = Math.min(ib < breaks.length ? breaks[ib].y : Infinity, ip < peaks.length ? peaks[ip].y : Infinity);
+      if (y - lastExact <= tol || next - y <= tol) continue;
       const k = this.slabOf(y);
-      if (Math.abs(y - H[k]) <= tol || Math.abs(y - H[k + 1]) <= tol) {
-        // On a boundary: draw the governing side (the breakpoint samples, if listed, carry both).
-        const s = this.sides(Math.abs(y - H[k]) <= tol ? H[k] : H[k + 1]);
-        const w = s.below > 0 && s.above > 0 ? Math.min(s.below, s.above) : Math.max(s.below, s.above);
-        push(y, 1, w, this.QAt(Math.min(depth, Math.max(0, y))));
-      } else push(y, 1, this.width1(k, y), this.QAt(y, k));
+      emit(y, this.width1(k, y), this.QAt(y, k));
     }
-    samples.sort((a, b) => a.y - b.y || a.order - b.order);
-    const out: TauProfile = { y: new Float64Array(samples.length), tauPerV: new Float64Array(samples.length), width: new Float64Array(samples.length) };
-    samples.forEach((s, i) => {
-      out.y[i] = s.y;
-      out.tauPerV[i] = s.tau;
-      out.width[i] = s.width;
-    });
-    return out;
+    flushTo(Infinity);
+    return { y: ys.subarray(0, m), tauPerV: taus.subarray(0, m), width: widths.subarray(0, m) };
   }
 
   breakpoints(): Breakpoint[] {
+    return this.breakpointList().map((b) => ({ ...b }));
+  }
+
+  private breakpointList(): Breakpoint[] {
+    if (this.breakCache) return this.breakCache;
     const H = this.H, nS = H.length - 1;
     const out: Breakpoint[] = [];
     for (let b = 0; b <= nS; b++) {
@@ -826,7 +847,7 @@ class ShearSection implements Section {
       }
       if (keep) out.push({ y: H[b], widthBelow: below, widthAbove: above, firstMoment: this.QAt(H[b], Math.min(b, nS - 1)) });
     }
-    return out;
+    return (this.breakCache = out);
   }
 
   outline(): OutlineItem[] {
