@@ -9,7 +9,10 @@ import { runCheck } from './check';
 const USAGE = `tauline: beam shear calculations in Markdown
 
 usage:
-  tauline check [PATHS...] [--json] [--frozen] [--format text|json|github]
+  tauline check  [PATHS...] [--json] [--frozen] [--format text|json|github]
+  tauline stamp  [PATHS...]
+  tauline report [PATHS...] [-o DIR]
+  tauline diff   [REV_A] [REV_B] [PATHS...] [--format text|markdown|json]
   tauline lsp --stdio
 
 Folders are searched for .md files. Exit 0: every check passes; 1: a check fails, a block has an
@@ -33,6 +36,18 @@ export async function main(argv: string[]): Promise<number> {
           return 2;
         }
         return await runCheck({ paths: positionals, cwd: process.cwd(), format: format as 'text' | 'json' | 'github', frozen: !!values.frozen, out, err });
+      }
+      case 'stamp': {
+        const { runStamp } = await import('./stamp');
+        return await runStamp(rest, { cwd: process.cwd(), out, err });
+      }
+      case 'report': {
+        const { runReport } = await import('./report');
+        return await runReport(rest, { cwd: process.cwd(), out, err });
+      }
+      case 'diff': {
+        const { runDiff } = await import('./diff');
+        return await runDiff(rest, { cwd: process.cwd(), out, err });
       }
       case 'lsp': {
         const { startStdioServer } = await import('../server/stdio');
