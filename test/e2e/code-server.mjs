@@ -131,6 +131,7 @@ export async function startCodeServer(root, { workspace, runDir, port, trusted =
         'editor.hover.delay': 200,
         'workbench.tips.enabled': false,
         'security.workspace.trust.startupPrompt': 'never',
+        'git.openRepositoryInParentFolders': 'never',
         ...settings,
       },
       null,

@@ -165,12 +165,12 @@ export function sparkline(input: { title: string; y: ArrayLike<number>; value: A
 // ---------------------------------------------------------------------------------------------
 // Utilisation bar of a check
 
-export const RATIO_BAR = { width: 260, height: 30 };
+export const RATIO_BAR = { width: 280, height: 30 };
 
 export function ratioBar(input: { ratio: number; pass: boolean; label: string }, p: Palette): string {
   const { width: W, height: H } = RATIO_BAR;
   const x0 = 8;
-  const barW = W - 70;
+  const barW = W - 96;
   const full = 1.5; // the bar runs to a utilisation of 1.5; beyond it is drawn full
   const f = Math.min(Math.max(input.ratio, 0), full) / full;
   const colour = input.pass ? p.pass : p.fail;
