@@ -238,6 +238,18 @@ describe('queries', () => {
     expect(t.tau(1, 6.2 * IN).side).toBe('below');
   });
 
+  it('the tip of a circle or a diamond at the bottom or top has zero width but tau is simply zero there', () => {
+    const round = buildSection([solid(circle(0.1).part!)]).section!;
+    const diamond = buildSection([solid(polygon([[0, 0], [0.1, 0.1], [0, 0.2], [-0.1, 0.1]]).part!)]).section!;
+    for (const t of [round, diamond]) {
+      for (const y of [0, t.depth]) {
+        expect(t.heightProblem(y)).toBeUndefined();
+        expect(t.tau(1000, y)).toEqual({ value: 0, width: 0, firstMoment: 0, side: 'both' });
+        expect(t.tauSides(1000, y).problem).toBeUndefined();
+      }
+    }
+  });
+
   it('profile takes any count and stays finite', () => {
     for (const n of [NaN, -5, 0, 1, 2.7, 1e9]) {
       const p = s.profile(n);

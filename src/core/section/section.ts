@@ -623,8 +623,14 @@ class ShearSection implements Section {
     return { y };
   }
 
-  private noMaterial(y: number): SectionProblem {
-    return problem('section.no-material', `There is no material at height y = ${formatLength(y)} (a gap between parts), so tau is undefined there.`);
+  /**
+   * The problem with a height that has no material on either side, if it is inside the depth: a gap
+   * or a point where parts only touch. The lowest and highest points of a section (the tip of a
+   * circle or a diamond) are not a problem: Q is zero there and so is tau.
+   */
+  private noMaterial(y: number): SectionProblem | undefined {
+    if (y === 0 || y === this.depth) return undefined;
+    return problem('section.no-material', `There is no material across height y = ${formatLength(y)}: the parts do not meet there, so tau is undefined.`);
   }
 
   private forceProblem(V: number): SectionProblem | undefined {
@@ -671,7 +677,10 @@ class ShearSection implements Section {
     const out: TauSides = { widthBelow: s.below, widthAbove: s.above, firstMoment: Q };
     if (s.below > 0) out.below = (V * Q) / (this.I * s.below);
     if (s.above > 0) out.above = (V * Q) / (this.I * s.above);
-    if (s.below === 0 && s.above === 0) out.problem = this.noMaterial(at.y);
+    if (s.below === 0 && s.above === 0) {
+      const none = this.noMaterial(at.y);
+      if (none) out.problem = none;
+    }
     return out;
   }
 
@@ -679,6 +688,8 @@ class ShearSection implements Section {
     const sides = this.tauSides(V, y);
     if (sides.problem) return { value: 0, width: 0, firstMoment: sides.firstMoment, side: 'both', problem: sides.problem };
     const { widthBelow: wB, widthAbove: wA } = sides;
+    // The tip of a circle or a diamond at the very bottom or top: no width, no first moment, no stress.
+    if (wB === 0 && wA === 0) return { value: 0, width: 0, firstMoment: 0, side: 'both' };
     let width: number, side: TauReading['side'];
     if (wB > 0 && wA > 0) {
       const same = Math.abs(wB - wA) <= this.widthZero;
