@@ -20,6 +20,7 @@ import {
   formatLength,
   makeCircle,
   makePolygon,
+  polygonArea,
   problem,
 } from './primitives';
 import { brent, cubicRootsInUnit } from './roots';
@@ -252,11 +253,7 @@ function build(inputs: readonly SectionInput[]): BuildResult {
 }
 
 function primitiveArea(s: Primitive): number {
-  if (s.kind === 'circle') return Math.PI * s.r * s.r;
-  let a = 0;
-  const n = s.xs.length;
-  for (let i = 1; i < n - 1; i++) a += (s.xs[i] - s.xs[0]) * (s.ys[i + 1] - s.ys[0]) - (s.xs[i + 1] - s.xs[0]) * (s.ys[i] - s.ys[0]);
-  return a / 2;
+  return s.kind === 'circle' ? Math.PI * s.r * s.r : polygonArea(s.xs, s.ys);
 }
 
 /**
