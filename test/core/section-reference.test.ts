@@ -55,7 +55,8 @@ const EXACT = 1e-9;
 
 describe('§1 closed-form shear-stress factors k = tau_max / (V/A)', () => {
   it('rectangle: parabolic profile, 3/2 V/A at the neutral axis, zero at the edges', () => {
-    // Source: REFERENCES §1 rectangle row (formula sheet "3V/2A rectangle") [R]; E15 rectangle values [C].
+    // Source: Beer, Johnston & DeWolf, Example 6.02 (REFERENCES E9) takes tau_max = 1.5 V/(bh) for a rectangle [R];
+    // the profile is the closed form of REFERENCES §1 [C]; E15 rectangle values [C].
     const b = 0.1, h = 0.2, V = 10_000;
     const s = section(must(plate(b, h)));
     const A = b * h;
@@ -99,7 +100,8 @@ describe('§1 closed-form shear-stress factors k = tau_max / (V/A)', () => {
   });
 
   it('thin tube approaches 2 V/A', () => {
-    // Source: REFERENCES §1 thin-walled tube row ("2V/A thin tube") [R]; E15 tube 6.366 MPa [C].
+    // Source: the thin-wall limit r -> R of the thick-tube formula (REFERENCES §1, Gere §5.9, from memory) is 2 [C];
+    // E15 tube 6.366 MPa [C].
     const s = section(must(tube(2, 0.001)));
     const k = s.tauMax(1).value * s.area;
     const R = 1, r = 0.999;
