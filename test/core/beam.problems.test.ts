@@ -272,7 +272,7 @@ describe('robustness on arbitrary input', () => {
             span,
             supports: xs.map((x) => ({ kind: 'roller' as const, x })),
             loads: loads.map(([a, b, w]) =>
-              a === b ? { kind: 'point' as const, P: w, x: a * span } : { kind: 'ramp' as const, w1: w, w2: -w / 2, x1: Math.min(a, b) * span, x2: Math.max(a, b) * span },
+              Math.abs(a - b) < 1e-3 ? { kind: 'point' as const, P: w, x: a * span } : { kind: 'ramp' as const, w1: w, w2: -w / 2, x1: Math.min(a, b) * span, x2: Math.max(a, b) * span },
             ),
           });
           expect(s.problems.filter((p) => p.severity === 'error')).toEqual([]);

@@ -111,7 +111,7 @@ describe('REFERENCES §5 S2: overhang with full-length udl [R, Q&A source; C rec
   });
 });
 
-describe('REFERENCES §5 S3: cantilever with udl and tip load [R, exam Q&A source; C recomputed]', () => {
+describe('REFERENCES §5 S3: cantilever with udl and tip load [R, Q&A source; C recomputed]', () => {
   // L = 4 m fixed at A, 2 kN/m over the 2 m nearest the free end C, 4 kN at C.
   it('fixed at the left end: SF_C = 4, SF_B = SF_A = 8 kN, BM_B = −12, BM_A = −28 kN·m', () => {
     for (const method of [undefined, 'stiffness'] as const) {

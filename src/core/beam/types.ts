@@ -164,14 +164,17 @@ export interface DiagramJump {
   momentRight: number;
 }
 
-/** The largest |V|: the signed value, where, and the side when V jumps at that x. */
+/**
+ * The largest |V|: the signed value, where, and the side when V jumps at that x. Values within
+ * 1e-10 of each other tie, and the leftmost is reported (so a symmetric beam names its left half).
+ */
 export interface ShearPeak {
   V: number;
   x: number;
   side?: Side;
 }
 
-/** An extreme of M: the value, where, and the side when M jumps at that x (applied couples). */
+/** An extreme of M: the value, where, and the side when M jumps at that x (applied couples). Ties as for V. */
 export interface MomentPeak {
   M: number;
   x: number;
@@ -239,6 +242,7 @@ export interface ReactionEnvelope<Tag = unknown> {
   Mmin?: GoverningValue;
 }
 
+/** Extremes over the combinations; on a tie (within 1e-10) the combination listed first is named. */
 export interface BeamEnvelope<Tag = unknown> {
   /** Largest |V| over all combinations (signed value) and the combination that gives it. */
   Vmax: ShearPeak & { combination: string };
