@@ -38,6 +38,8 @@ export interface TestClient {
   /** Resolves with the next diagnostics published for `uri` at `version` or later. */
   diagnostics(uri: string, minVersion?: number, timeoutMs?: number): Promise<Diagnostic[]>;
   lastDiagnostics(uri: string): PublishDiagnosticsParams | undefined;
+  /** Resolves with the next diagnostics published for `uri`, whatever their version. */
+  nextDiagnostics(uri: string, timeoutMs?: number): Promise<Diagnostic[]>;
   request<R>(method: string, params: unknown): Promise<R>;
   notifications: { method: string; params: unknown }[];
   stop(): Promise<void>;
@@ -101,6 +103,12 @@ export function startClient(command: string[] = [process.execPath, SERVER_JS, '-
       });
     },
     lastDiagnostics: (uri) => published.get(uri),
+    nextDiagnostics(uri, timeoutMs = 20_000) {
+      return new Promise((res, rej) => {
+        const timer = setTimeout(() => rej(new Error(`no diagnostics for ${uri} within ${timeoutMs} ms`)), timeoutMs);
+        waiters.push({ uri, minVersion: 0, resolve: (d) => (clearTimeout(timer), res(d)) });
+      });
+    },
     request: <R>(method: string, params: unknown) => connection.sendRequest<R>(method, params),
     async stop() {
       try {
