@@ -39,7 +39,9 @@ export function evaluateSectionStatement(st: Extract<Statement, { kind: 'section
         if (p.at) {
           const x = length(p.at[0], pctx, 'x of `at`', true);
           const y = length(p.at[1], pctx, 'y of `at`', true);
-          part = shapes.translate(part, x, y);
+          // Circles and tubes are placed by their centre; every other part by centre-x, bottom-y.
+          const lift = p.shape === 'circle' || p.shape === 'tube' ? (b.maxY - b.minY) / 2 : 0;
+          part = shapes.translate(part, x, y - lift);
         } else if (p.hole) {
           // A hole without `at` sits in the middle of the material placed so far.
           const cx = (xMin + xMax) / 2;
@@ -76,10 +78,10 @@ export function evaluateSectionStatement(st: Extract<Statement, { kind: 'section
   for (const problem of out.problems) {
     const p = problem.tag as PartStatement | undefined;
     diagnostics.push(p
-      ? { code: problem.code, severity: 'error', message: problem.message, line: p.line, column: p.start, endColumn: p.end }
-      : { code: problem.code, severity: 'error', message: `${st.target.name}: ${problem.message}`, line: st.line, column: st.target.start, endColumn: st.target.end });
+      ? { code: problem.code, severity: problem.severity, message: problem.message, line: p.line, column: p.start, endColumn: p.end }
+      : { code: problem.code, severity: problem.severity, message: `${st.target.name}: ${problem.message}`, line: st.line, column: st.target.start, endColumn: st.target.end });
   }
-  if (!out.section || out.problems.length) return { diagnostics };
+  if (!out.section || out.problems.some((p) => p.severity === 'error')) return { diagnostics };
   return { value: { kind: 'section', name: st.target.name, title: st.title, section: out.section }, diagnostics };
 }
 
