@@ -1,6 +1,7 @@
 /**
- * Evaluates many notes on worker threads, one pool sized to the machine's cores, and returns the
- * outcomes in the order of the tasks, so output never depends on which thread finished first.
+ * Evaluates many notes on worker threads, one pool sized to the machine's cores (the main thread
+ * counts as one of them), and returns the outcomes in the order of the tasks, so output never
+ * depends on which thread finished first.
  * A handful of notes run on the main thread (starting workers costs more than it saves). The
  * worker is dist/worker.js, bundled beside dist/cli.js; when it is absent (running from sources
  * in tests) everything runs on the main thread. TAULINE_JOBS=N sets the number of threads
@@ -32,6 +33,7 @@ function defaultWorkerPath(): string | undefined {
   const here = typeof __dirname === 'string' ? __dirname : undefined;
   if (!here) return undefined;
   const p = join(here, 'worker.js');
+  // Only the bundle beside dist/cli.js is a worker; running from sources (tests) stays on one thread.
   return existsSync(p) ? p : undefined;
 }
 
@@ -65,18 +67,24 @@ export async function runNoteTasks(tasks: readonly NoteTask[], options: PoolOpti
         inFlight.delete(m.id);
         feed();
       });
-      const fail = () => {
-        // A worker that dies leaves its notes to the main thread; the output stays complete.
-        inFlight.clear();
-        finish();
-      };
+      // A worker that dies leaves its notes to the main thread; the output stays complete.
+      const fail = () => finish();
       worker.on('error', fail);
       worker.on('exit', fail);
       feed();
     });
-  const workers = Array.from({ length: jobs }, () => new Worker(workerPath));
+  // The main thread is one of the `jobs` threads: it takes notes from the same queue while the
+  // workers start up and run, yielding between notes so their messages are handled.
+  const mainThread = async () => {
+    while (next < tasks.length) {
+      const id = next++;
+      outcomes[id] = runNoteTask(tasks[id]!);
+      await new Promise<void>((r) => setImmediate(r));
+    }
+  };
+  const workers = Array.from({ length: jobs - 1 }, () => new Worker(workerPath));
   try {
-    await Promise.all(workers.map(runOne));
+    await Promise.all([...workers.map(runOne), mainThread()]);
   } finally {
     await Promise.all(workers.map((w) => w.terminate()));
   }
