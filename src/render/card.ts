@@ -65,7 +65,7 @@ export function statusText(s: BlockSummary): { text: string; tone: 'pass' | 'fai
   if (s.errors) parts.push(`${s.errors} error${s.errors === 1 ? '' : 's'}`);
   if (s.warnings) parts.push(`${s.warnings} warning${s.warnings === 1 ? '' : 's'}`);
   const tone = s.errors ? 'error' : s.failed ? 'fail' : s.checks ? 'pass' : 'none';
-  return { text: parts.join(' · ') || 'evaluated', tone };
+  return { text: parts.join(' · ') || 'no checks', tone };
 }
 
 interface Row {
@@ -338,7 +338,9 @@ function beamHtml(res: StatementResult, r: BlockResult, o: CardOptions, commentH
   const st = res.statement as Extract<Statement, { kind: 'beam' }>;
   const value = res.value?.kind === 'beam' ? (res.value as BeamValue) : undefined;
   const f = (si: number, dim: typeof DIM.force) => formatQuantity(quantity(si, dim), r.unitSystem, o.significantFigures);
-  const span = value ? ` <span class="tl-object-title">span ${escapeHtml(f(value.beam.span, DIM.length))}</span>` : '';
+  // Positions along a beam read in one unit (m or ft), whatever their size.
+  const along = (si: number) => formatQuantity(quantity(si, DIM.length, r.unitSystem === 'US' ? { text: 'ft', factor: 0.3048 } : { text: 'm', factor: 1 }), r.unitSystem, o.significantFigures);
+  const span = value ? ` <span class="tl-object-title">span ${escapeHtml(along(value.beam.span))}</span>` : '';
   const head = `<div class="tl-object-head"><span class="tl-kind">Beam</span> <span class="tl-object-name">${escapeHtml(st.target.name)}</span>${span}</div>`;
   const items = partsListHtml(st.items.map((i) => i.line), r);
   if (!value) return `<div ${rowAttrs(st.line, 'beam', o, ' tl-failed')}>${head}${commentHtml}${items}</div>`;
@@ -351,7 +353,7 @@ function beamHtml(res: StatementResult, r: BlockResult, o: CardOptions, commentH
   const design = beam.reactions();
   const per = columns.map((c) => beam.reactions(c));
   design.forEach((rx, i) => {
-    table += `<tr><td>${escapeHtml(f(rx.x, DIM.length))}</td>`;
+    table += `<tr><td>${escapeHtml(along(rx.x))}</td>`;
     for (const list of per) table += `<td>${escapeHtml(list[i] ? f(list[i]!.R, DIM.force) : '')}</td>`;
     table += `<td>${escapeHtml(f(rx.R, DIM.force))}${rx.M ? `, M ${escapeHtml(f(rx.M, DIM.moment))}` : ''}</td></tr>`;
   });

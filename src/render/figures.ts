@@ -108,7 +108,8 @@ function svgOpen(width: number, height: number, title: string | undefined, cls: 
 }
 
 function text(x: number, y: number, body: string, p: Palette, attrs = '', cls = 'tl-fig-ink'): string {
-  return `<text class="${cls}" x="${num(x)}" y="${num(y)}" fill="${cls === 'tl-fig-muted' ? p.muted : p.ink}"${attrs}>${escapeHtml(body)}</text>`;
+  const fill = cls === 'tl-fig-na-label' ? p.axis : cls === 'tl-fig-muted' ? p.muted : p.ink;
+  return `<text class="${cls}" x="${num(x)}" y="${num(y)}" fill="${fill}"${attrs}>${escapeHtml(body)}</text>`;
 }
 
 function line(x1: number, y1: number, x2: number, y2: number, stroke: string, cls: string, attrs = ''): string {
@@ -255,7 +256,7 @@ export function sectionFigure(section: Section, options: SectionFigureOptions = 
   out += drawSection(section, g, left, top, p);
   const na = top + g.height - section.centroidY * g.sy;
   out += line(left - 6, na, left + g.width + 8, na, p.axis, 'tl-fig-na', ' stroke-dasharray="6 3" stroke-width="1"');
-  out += text(left + g.width + 10, na + 3.5, 'NA', p, ` fill="${p.axis}"`, 'tl-fig-na-label');
+  out += text(left + g.width + 10, na + 3.5, 'NA', p, '', 'tl-fig-na-label');
   out += widthDimension(section, g, left, top + g.height + 14, p, options);
   if (g.exaggerated) out += text(left, height - 2, 'depth exaggerated', p, ' font-size="9"', 'tl-fig-muted');
   return out + '</svg>';
@@ -367,16 +368,20 @@ function drawTau(
     .filter((j) => j.weight > 0.02 * peakPerV)
     .sort((a, b) => b.weight - a.weight)
     .slice(0, 6);
+  const marks = (o.marks ?? []).filter((m) => m.y >= 0 && m.y <= section.depth);
+  const sameHeight = (a: number, b: number) => Math.abs(a - b) <= 1e-9 * section.depth;
   for (const j of jumps) {
     const py = Y(j.y);
     out += line(X(j.tWide), py, X(j.tNarrow), py, p.accent, 'tl-fig-jump', ' stroke-width="1" stroke-dasharray="2 2"');
     out += `<circle class="tl-fig-jump-end" cx="${num(X(j.tNarrow))}" cy="${num(py)}" r="2.2" fill="${p.accent}"/>`;
     out += `<circle class="tl-fig-jump-end" cx="${num(X(j.tWide))}" cy="${num(py)}" r="2.2" fill="none" stroke="${p.accent}"/>`;
     const body = `${scale.bare(j.tNarrow * scale.factor)} | ${scale.label(j.tWide * scale.factor)}`;
-    label(py, X(Math.max(j.tNarrow, j.tWide)) + 6, body);
+    // A height the note asks about that falls on a junction is named in the junction's label.
+    const named = marks.filter((m) => sameHeight(m.y, j.y));
+    for (const m of named) marks.splice(marks.indexOf(m), 1);
+    label(py, X(Math.max(j.tNarrow, j.tWide)) + 6, named.length ? `${named.map((m) => m.label).join(', ')}: ${body}` : body);
   }
-  for (const m of o.marks ?? []) {
-    if (!(m.y >= 0 && m.y <= section.depth)) continue;
+  for (const m of marks) {
     const py = Y(m.y);
     const t = section.tau(1, m.y);
     out += line(x0, py, X(t.value) + 2, py, p.muted, 'tl-fig-mark', ' stroke-width="0.8" stroke-dasharray="1 2"');
@@ -428,7 +433,7 @@ export function sectionWithTau(section: Section, V: number | undefined, options:
   body += tau.svg;
   const na = top + g.height - section.centroidY * g.sy;
   body += line(left - 6, na, tauX + plotWidth, na, p.axis, 'tl-fig-na', ' stroke-dasharray="6 3" stroke-width="1"');
-  if (labels.place(na, tauX - gap + 2, tauX - 2)) body += text(tauX - gap / 2, na - 3, 'NA', p, ` text-anchor="middle" font-size="9" fill="${p.axis}"`, 'tl-fig-na-label');
+  if (labels.place(na, tauX - gap + 2, tauX - 2)) body += text(tauX - gap / 2, na - 3, 'NA', p, ' text-anchor="middle" font-size="9"', 'tl-fig-na-label');
   body += widthDimension(section, g, left, top + g.height + 14, p, options);
   if (g.exaggerated) body += text(left, top + g.height + 34, 'depth exaggerated', p, ' font-size="9"', 'tl-fig-muted');
   const width = tau.right + 8;
@@ -580,7 +585,7 @@ export function beamDiagrams(beam: BeamSource, options: BeamFigureOptions = {}):
     supports: [],
     span: data.span,
   });
-  y += 14 + panelH + 8;
+  y += 14 + panelH + 22;
   // x axis: the ends and every support.
   const ticks = [0, data.span, ...data.supports.map((s) => s.x)].sort((a, b) => a - b);
   const tickSpace = new LabelSpace(0);
@@ -663,7 +668,7 @@ function drawDiagramPanel(d: PanelInput): string {
     const w = textWidth(body, 10);
     const above = v >= 0;
     let py = above ? Y(v) - 5 : Y(v) + 13;
-    py = Math.max(d.top - 2, Math.min(d.top + d.height + 12, py));
+    py = Math.max(d.top - 2, Math.min(d.top + d.height + 13, py));
     let px = X(x) - w / 2;
     px = Math.max(2, Math.min(d.left + d.plotW + 24 - w, px));
     if (!labels.place(py, px - 2, px + w + 2)) return;

@@ -219,8 +219,9 @@ export function handCalc(result: StatementResult, c: FormulaContext): HandCalc |
   return undefined;
 }
 
+/** A name, member or call: substituting it gives just its value, which the result shows anyway. */
 function isSingleReference(e: Expr): boolean {
-  return e.kind === 'name' || e.kind === 'member';
+  return e.kind === 'name' || e.kind === 'member' || e.kind === 'call';
 }
 
 function failedValue(result: StatementResult): boolean {

@@ -139,12 +139,12 @@ const CALL_SYMBOL: Record<string, string> = {
   max: '\\max',
 };
 
-/** The name of the object a member is read from, with any combination: `B1.ULS` → B1, ULS. */
-function memberOwner(e: Expr): string | undefined {
-  if (e.kind === 'name') return objectNameLatex(e.name);
+/** `W1.ULS_a` as an upright object name, for a name or a chain of members; undefined for anything else. */
+function objectPath(e: Expr): string | undefined {
+  if (e.kind === 'name') return ident(e.name);
   if (e.kind === 'member') {
-    const owner = memberOwner(e.object);
-    return owner ? `${owner},${objectNameLatex(e.member)}` : undefined;
+    const owner = objectPath(e.object);
+    return owner === undefined ? undefined : `${owner}.${ident(e.member)}`;
   }
   return undefined;
 }
@@ -205,10 +205,10 @@ export function exprLatex(e: Expr, mode: LatexMode): string {
       return nameLatex(e.name);
     }
     case 'member': {
-      const owner = memberOwner(e.object);
+      const owner = objectPath(e.object);
       const symbol = MEMBER_SYMBOL[e.member];
-      if (owner && symbol) return attachSubscript(symbol, owner);
-      if (owner) return `\\mathrm{${owner}}`;
+      if (owner !== undefined && symbol) return attachSubscript(symbol, `\\mathrm{${owner}}`);
+      if (owner !== undefined) return `\\mathrm{${owner}.${ident(e.member)}}`;
       return `${exprLatex(e.object, mode)}.\\mathrm{${ident(e.member)}}`;
     }
     case 'call': {
