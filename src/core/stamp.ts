@@ -442,9 +442,9 @@ function safeBlocks(text: string): Block[] {
 }
 
 /** Lines inside code (fenced or indented), where a marker is text, and the opening lines of `shear` fences. */
-function codeLines(text: string, lineCount: number): { inCode: Uint8Array; shearFences: number[] } {
+function codeLines(text: string, lineCount: number): { inCode: Uint8Array; shearFences: { start: number; endExclusive: number }[] } {
   const inCode = new Uint8Array(lineCount);
-  const shearFences: number[] = [];
+  const shearFences: { start: number; endExclusive: number }[] = [];
   const src = text.charCodeAt(0) === 0xfeff ? text.slice(1) : text;
   let tokens: ReturnType<typeof parser.parse>;
   try {
@@ -457,7 +457,7 @@ function codeLines(text: string, lineCount: number): { inCode: Uint8Array; shear
     for (let l = tok.map[0]; l < tok.map[1] && l < lineCount; l++) inCode[l] = 1;
     if (tok.type === 'fence') {
       const m = /^(\S+)/.exec(tok.info.trim());
-      if (m && m[1]!.toLowerCase() === BLOCK_LANGUAGE) shearFences.push(tok.map[0]);
+      if (m && m[1]!.toLowerCase() === BLOCK_LANGUAGE) shearFences.push({ start: tok.map[0], endExclusive: tok.map[1] });
     }
   }
   return { inCode, shearFences };
@@ -473,7 +473,15 @@ function scanNote(text: string, blocks: readonly Block[]): Scan {
   const scan: Scan = { lines, eol, stamps, damaged, problems, mismatch: false };
 
   const fenceLines = blocks.map((b) => b.fenceLine);
-  if (fenceLines.length !== shearFences.length || fenceLines.some((l, i) => l !== shearFences[i]) || blocks.some((b) => b.endLine >= lines.length)) {
+  // Results from another text (or a cache that kept a block whose closing fence has since gone)
+  // would put a stamp in the wrong place: every block must sit exactly where this text has it.
+  const misplaced = (b: Block, i: number) => {
+    const f = shearFences[i];
+    if (!f || f.start !== b.fenceLine) return true;
+    if (!b.closed) return false;
+    return b.endLine !== f.endExclusive - 1 || b.endLine >= lines.length || !/^(`{3,}|~{3,})$/.test(lines[b.endLine]!.content);
+  };
+  if (fenceLines.length !== shearFences.length || blocks.some(misplaced)) {
     scan.mismatch = true;
     problems.push({ code: 'stamp.note-mismatch', severity: 'error', line: 0, message: 'The results passed in were not computed from this text, so no stamp was written; evaluate the note again.' });
     return scan;

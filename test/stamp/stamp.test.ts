@@ -78,6 +78,10 @@ describe('stampText: layout of a stamp', () => {
     const out = stampText('intro\n\n```shear\nA = 1\n```\n', fakeNote('```shear\nA = 1\n```\n'));
     expect(out.changed).toBe(false);
     expect(out.problems[0]!.code).toBe('stamp.note-mismatch');
+    // same block, same place, but its closing fence has gone since (as a cached evaluation could keep it)
+    const unclosed = stampText('```shear\nA = 1\n\n', fakeNote('```shear\nA = 1\n```\n'));
+    expect(unclosed.changed).toBe(false);
+    expect(unclosed.problems[0]!.code).toBe('stamp.note-mismatch');
   });
 
   it('returns edits that turn the input into the output', () => {
