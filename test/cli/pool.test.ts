@@ -2,7 +2,7 @@
  * Notes evaluated on worker threads give the same output, in the same order, as on one thread; a
  * worker that dies leaves its notes to the main thread. The notes are invented.
  */
-import { mkdtempSync, rmSync, writeFileSync } from 'node:fs';
+import { mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
@@ -30,6 +30,23 @@ describe('the worker pool', () => {
     const paths = JSON.parse(all.stdout).files.map((f: { path: string }) => f.path);
     expect(paths).toEqual([...paths].sort());
     expect(tauline(['check', '.'], dir, { TAULINE_JOBS: '4' }).stdout).toBe(tauline(['check', '.'], dir, { TAULINE_JOBS: '1' }).stdout);
+  });
+
+  it('stamps on worker threads exactly as on one thread', () => {
+    const copy = (suffix: string) => {
+      const d = mkdtempSync(join(tmpdir(), `tauline-pool-${suffix}-`));
+      for (let i = 0; i < 20; i++) writeFileSync(join(d, `n${i}.md`), noteText(i));
+      return d;
+    };
+    const [a, b] = [copy('one'), copy('all')];
+    try {
+      expect(tauline(['stamp', '.'], a, { TAULINE_JOBS: '1' }).stdout).toBe(tauline(['stamp', '.'], b, { TAULINE_JOBS: '4' }).stdout);
+      for (let i = 0; i < 20; i++) expect(readFileSync(join(b, `n${i}.md`), 'utf8')).toBe(readFileSync(join(a, `n${i}.md`), 'utf8'));
+      expect(readFileSync(join(b, 'n3.md'), 'utf8')).toContain('<!-- /tauline-results -->');
+    } finally {
+      rmSync(a, { recursive: true, force: true });
+      rmSync(b, { recursive: true, force: true });
+    }
   });
 
   it('returns outcomes in task order from the bundled worker', async () => {
