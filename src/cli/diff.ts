@@ -139,7 +139,7 @@ async function evaluate(tasks: NoteTask[]): Promise<NoteSnapshot[]> {
 function percentText(p: number | null | undefined): string {
   if (p === null || p === undefined) return '';
   const sign = p > 0 ? '+' : p < 0 ? '−' : '±';
-  return `${sign}${formatNumber(Math.abs(p), { significantFigures: Math.abs(p) >= 100 ? 4 : 3 })} %`;
+  return `${sign}${formatNumber(Math.abs(p), { significantFigures: 3 })} %`;
 }
 
 function ratioText(r: number | undefined): string {
@@ -232,7 +232,8 @@ function failingCount(b: BlockChange, status: 'added' | 'removed'): string {
 
 /** Markdown for a pull-request comment: one table per note, cells escaped. */
 export function diffToMarkdown(d: DiffReport): string {
-  const cell = (s: string) => s.replace(/\\/g, '\\\\').replace(/\|/g, '\\|').replace(/</g, '&lt;').replace(/>/g, '&gt;').replace(/[\r\n]+/g, ' ');
+  // Titles come from the note (untrusted): no links, emphasis or HTML can be smuggled into the comment.
+  const cell = (s: string) => s.replace(/[\r\n]+/g, ' ').replace(/&/g, '&amp;').replace(/</g, '&lt;').replace(/>/g, '&gt;').replace(/[\\`*_[\]|!#~]/g, '\\$&');
   const code = (s: string) => {
     const flat = s.replace(/[\r\n]+/g, ' ').replace(/\|/g, '\\|');
     const longest = Math.max(0, ...[...flat.matchAll(/`+/g)].map((m) => m[0].length));

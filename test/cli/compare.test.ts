@@ -107,3 +107,15 @@ describe('comparing versions', () => {
     expect(d.summary).toEqual({ notes: 6, changedNotes: 4, addedNotes: 2, removedNotes: 1, renamedNotes: 1, addedBlocks: 0, removedBlocks: 0, movedValues: 1, newlyFailing: 0, newlyPassing: 0 });
   });
 });
+
+describe('Markdown for a pull-request comment', () => {
+  it('escapes what a note controls: titles, check texts and paths', async () => {
+    const { diffToMarkdown } = await import('../../src/cli/diff');
+    const before = snap('a|b.md', block('[x](http://example.invalid) <img> *B*', { V: 1000 }, [['a | b <= `c`', true, 0.5]]));
+    const after = snap('a|b.md', block('[x](http://example.invalid) <img> *B*', { V: 2000 }, [['a | b <= `c`', false, 1.5]]));
+    const md = diffToMarkdown({ from: { rev: 'A', commit: 'a', label: 'a' }, to: { rev: '', commit: null, label: 'the working tree' }, ...compareVersions([before], [after]) });
+    expect(md).toContain('| \\[x\\](http://example.invalid) &lt;img&gt; \\*B\\* | `V` | 1 kN | 2 kN | +100 % |');
+    expect(md).toContain('| check `` a \\| b <= `c` `` | pass (0.500) | **fails** (1.50) | **now fails** |');
+    expect(md).not.toContain('<img>');
+  });
+});
