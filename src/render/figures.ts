@@ -153,7 +153,7 @@ class LabelSpace {
 
 /** Rough text width for label layout: the figures use an 11 px sans-serif. */
 function textWidth(s: string, size = 11): number {
-  return s.length * size * 0.56;
+  return s.length * size * 0.62;
 }
 
 // ---- the section ---------------------------------------------------------------------------
@@ -238,7 +238,7 @@ function heightAxis(section: Section, g: SectionGeometry, axisX: number, top: nu
   tick(0, '0', true);
   tick(section.depth, formatNumber(section.depth / unit.factor, { significantFigures: o.significantFigures }), true);
   tick(section.centroidY, formatNumber(section.centroidY / unit.factor, { significantFigures: o.significantFigures }));
-  out += text(axisX - 6, top - 8, `y (${unit.text})`, p, ' text-anchor="end"', 'tl-fig-muted');
+  out += text(2, top - 8, `y (${unit.text})`, p, '', 'tl-fig-muted');
   return out;
 }
 
@@ -409,7 +409,7 @@ export function tauFigure(section: Section, V: number | undefined, options: TauF
   let body = heightAxis(section, g, left - 10, top, p, options, labels);
   const tau = drawTau(section, V, g, left, top, plotWidth, p, options, labels);
   body += tau.svg;
-  const width = tau.right + 8;
+  const width = tau.right + 12;
   return svgOpen(width, top + g.height + bottom, options.title ?? 'Shear stress over the depth', 'tl-fig-tau', p) + body + '</svg>';
 }
 
@@ -436,7 +436,7 @@ export function sectionWithTau(section: Section, V: number | undefined, options:
   if (labels.place(na, tauX - gap + 2, tauX - 2)) body += text(tauX - gap / 2, na - 3, 'NA', p, ' text-anchor="middle" font-size="9"', 'tl-fig-na-label');
   body += widthDimension(section, g, left, top + g.height + 14, p, options);
   if (g.exaggerated) body += text(left, top + g.height + 34, 'depth exaggerated', p, ' font-size="9"', 'tl-fig-muted');
-  const width = tau.right + 8;
+  const width = tau.right + 12;
   return svgOpen(width, top + g.height + bottom, options.title ?? 'Section and shear stress over the depth', 'tl-fig-section-tau', p) + body + '</svg>';
 }
 

@@ -54,6 +54,14 @@ export function createSheetMarkdown(options: ShearPluginOptions = {}): MarkdownI
   md.use(shearPlugin, { caution: false, ...options });
   md.block.ruler.before('paragraph', 'tauline_comment', hiddenComment);
   md.renderer.rules.tauline_hidden = () => '';
+  // A sheet fetches nothing: an image is shown only when it is embedded in the note itself.
+  const image = md.renderer.rules.image!;
+  md.renderer.rules.image = (tokens, idx, opts, env, self) => {
+    const src = tokens[idx]!.attrGet('src') ?? '';
+    if (/^data:image\/(png|jpe?g|gif|webp);/i.test(src)) return image(tokens, idx, opts, env, self);
+    const alt = self.renderInlineAsText(tokens[idx]!.children ?? [], opts, env);
+    return `<span class="tl-image-omitted">[image not embedded: ${md.utils.escapeHtml(alt || src)}]</span>`;
+  };
   return md;
 }
 
