@@ -4,7 +4,8 @@
  */
 import * as vscode from 'vscode';
 import { LanguageClient } from 'vscode-languageclient/browser';
-import { clientOptions, markdownItExtension, registerReportCommands, wireClient } from './common';
+import { clientOptions, markdownItExtension, wireClient } from './common';
+import { registerReport } from './report';
 
 /** The web extension host is a worker scope; its global Worker is not in the Node typings this project compiles with. */
 declare const Worker: new (url: string) => ConstructorParameters<typeof LanguageClient>[3];
@@ -15,7 +16,7 @@ export async function activate(context: vscode.ExtensionContext) {
   const serverUri = vscode.Uri.joinPath(context.extensionUri, 'dist', 'browser', 'server.js');
   const worker = new Worker(serverUri.toString(true));
   client = new LanguageClient('tauline', 'Tauline', clientOptions(['file', 'untitled', 'vscode-vfs', 'vscode-test-web']), worker);
-  registerReportCommands(context);
+  registerReport(context);
   wireClient(context, client);
   context.subscriptions.push({ dispose: () => void client?.stop() });
   client.start().catch((e) => void vscode.window.showErrorMessage(`Tauline: the language server did not start: ${e instanceof Error ? e.message : String(e)}`));

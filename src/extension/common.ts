@@ -64,6 +64,17 @@ export function clientOptions(schemes: string[]): LanguageClientOptions {
     // Hover text stays untrusted: pictures are data: images, which need neither HTML nor commands.
     markdown: { isTrusted: false, supportHtml: false },
     diagnosticCollectionName: 'tauline',
+    middleware: {
+      // The server names the note by its URI string (it is LSP data); the sheet command takes a vscode.Uri and the block's fence line.
+      async provideCodeLenses(document, token, next) {
+        const lenses = await next(document, token);
+        for (const lens of lenses ?? []) {
+          const args = lens.command?.arguments;
+          if (lens.command?.command === 'tauline.openReport' && args && typeof args[0] === 'string') args[0] = vscode.Uri.parse(args[0]);
+        }
+        return lenses;
+      },
+    },
   };
 }
 
@@ -154,24 +165,6 @@ export function wireClient(context: vscode.ExtensionContext, client: BaseLanguag
       else if (!out.edits.length) void vscode.window.showInformationMessage('Tauline: the stamps are up to date.');
     }),
   );
-}
-
-/** The calculation sheet commands come from the rendering side (src/extension/report.ts) when it is built in. */
-export function registerReportCommands(context: vscode.ExtensionContext): void {
-  let register: ((c: vscode.ExtensionContext) => void) | undefined;
-  try {
-    // eslint-disable-next-line @typescript-eslint/no-require-imports
-    register = (require('./report') as { registerReport?: (c: vscode.ExtensionContext) => void }).registerReport;
-  } catch {
-    register = undefined;
-  }
-  if (register) {
-    register(context);
-    return;
-  }
-  for (const id of ['tauline.openReport', 'tauline.exportReport']) {
-    context.subscriptions.push(vscode.commands.registerCommand(id, () => vscode.window.showInformationMessage('Tauline: the calculation sheet is not part of this build.')));
-  }
 }
 
 /** The Markdown preview: `shear` blocks become result cards; settings are read at each render. */

@@ -4,7 +4,8 @@
  */
 import * as vscode from 'vscode';
 import { LanguageClient, type ServerOptions, TransportKind } from 'vscode-languageclient/node';
-import { clientOptions, markdownItExtension, registerReportCommands, wireClient } from './common';
+import { clientOptions, markdownItExtension, wireClient } from './common';
+import { registerReport } from './report';
 
 let client: LanguageClient | undefined;
 
@@ -15,7 +16,7 @@ export async function activate(context: vscode.ExtensionContext) {
     debug: { module, transport: TransportKind.ipc, options: { execArgv: ['--nolazy', '--inspect=6019'] } },
   };
   client = new LanguageClient('tauline', 'Tauline', serverOptions, clientOptions(['file', 'untitled']));
-  registerReportCommands(context);
+  registerReport(context);
   wireClient(context, client);
   context.subscriptions.push({ dispose: () => void client?.stop() });
   // The preview plugin must be returned even if the server fails to start.

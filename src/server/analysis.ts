@@ -45,7 +45,7 @@ export interface NoteAnalysis {
   uri: string;
   version: number;
   text: string;
-  lines: string[];
+  readonly lines: string[];
   blocks: Block[];
   /** Statements per block (from the evaluation when there is one). */
   statements: Statement[][];
@@ -54,14 +54,16 @@ export interface NoteAnalysis {
   /** Undefined when evaluation is off (restricted mode without the setting). */
   note?: NoteResult;
   unitSystem: UnitSystem;
-  definitions: Definition[];
-  uses: Use[];
-  exprs: ExprSite[];
+  readonly definitions: Definition[];
+  readonly uses: Use[];
+  readonly exprs: ExprSite[];
   /** Result of each statement (evaluation only). */
-  resultOf: Map<Statement, StatementResult>;
-  blockResultOf: Map<Statement, BlockResult>;
+  readonly resultOf: Map<Statement, StatementResult>;
+  readonly blockResultOf: Map<Statement, BlockResult>;
   /** Milliseconds the evaluation took, and how many blocks were reused from the cache. */
   evaluationMs: number;
+  /** Milliseconds for the whole analysis: evaluation plus the name index. */
+  analysisMs: number;
   reused: number;
 }
 
@@ -192,54 +194,80 @@ export class NoteStore {
       unitSystem = settings.unitSystem === 'US' ? 'US' : 'SI';
     }
     const evaluationMs = this.now() - started;
+    // The name index and the split lines are built on first use: a keystroke that only needs
+    // diagnostics never pays for them.
+    let index: { definitions: Definition[]; uses: Use[]; exprs: ExprSite[] } | undefined;
+    let lines: string[] | undefined;
+    let resultOf: Map<Statement, StatementResult> | undefined;
+    let blockResultOf: Map<Statement, BlockResult> | undefined;
+    const results = () => {
+      if (!resultOf || !blockResultOf) {
+        resultOf = new Map();
+        blockResultOf = new Map();
+        for (const br of note?.blocks ?? []) {
+          for (const r of br.results) resultOf.set(r.statement, r);
+          for (const st of br.statements) blockResultOf.set(st, br);
+        }
+      }
+      return { resultOf, blockResultOf };
+    };
     const analysis: NoteAnalysis = {
       uri,
       version,
       text,
-      lines: text.split(/\r\n|\r|\n/),
+      get lines() {
+        return (lines ??= text.split(/\r\n|\r|\n/));
+      },
       blocks,
       statements,
       diagnostics,
       note,
       unitSystem,
-      definitions: [],
-      uses: [],
-      exprs: [],
-      resultOf: new Map(),
-      blockResultOf: new Map(),
+      get definitions() {
+        return (index ??= indexNames(statements)).definitions;
+      },
+      get uses() {
+        return (index ??= indexNames(statements)).uses;
+      },
+      get exprs() {
+        return (index ??= indexNames(statements)).exprs;
+      },
+      get resultOf() {
+        return results().resultOf;
+      },
+      get blockResultOf() {
+        return results().blockResultOf;
+      },
       evaluationMs,
+      analysisMs: 0,
       reused: note?.reused ?? 0,
     };
-    if (note) {
-      for (const br of note.blocks) {
-        for (const r of br.results) analysis.resultOf.set(r.statement, r);
-        for (const st of br.statements) analysis.blockResultOf.set(st, br);
-      }
-    }
-    indexNames(analysis);
+    analysis.analysisMs = this.now() - started;
     this.analyses.set(uri, analysis);
     return analysis;
   }
 }
 
 /** Resolves names the way the evaluator does: top to bottom, a definition visible from the next statement on. */
-function indexNames(a: NoteAnalysis): void {
+function indexNames(statements: Statement[][]): { definitions: Definition[]; uses: Use[]; exprs: ExprSite[] } {
+  const out = { definitions: [] as Definition[], uses: [] as Use[], exprs: [] as ExprSite[] };
   const scope = new Map<string, Definition>();
-  a.statements.forEach((list, blockIndex) => {
+  statements.forEach((list, blockIndex) => {
     for (const st of list) {
       for (const { line, expr } of statementExprs(st)) {
-        a.exprs.push({ line, expr, statement: st, blockIndex });
+        out.exprs.push({ line, expr, statement: st, blockIndex });
         for (const n of nameNodes(expr)) {
-          a.uses.push({ name: n.name, line, start: n.start, end: n.end, expr: n, statement: st, blockIndex, definition: scope.get(n.name) });
+          out.uses.push({ name: n.name, line, start: n.start, end: n.end, expr: n, statement: st, blockIndex, definition: scope.get(n.name) });
         }
       }
       if (st.kind === 'assign' || st.kind === 'section' || st.kind === 'beam') {
         const def: Definition = { name: st.target.name, line: st.line, start: st.target.start, end: st.target.end, blockIndex, statement: st, kind: definitionKind(st) };
-        a.definitions.push(def);
+        out.definitions.push(def);
         scope.set(def.name, def);
       }
     }
   });
+  return out;
 }
 
 /** The block whose fenced lines contain a Markdown line, if any. */

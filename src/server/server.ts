@@ -60,6 +60,8 @@ export function startServer(connection: Connection, deps: ServerDeps = {}): Serv
   let inlayRefresh = false;
   let lensRefresh = false;
   const timers = new Map<string, ReturnType<typeof setTimeout>>();
+  /** Milliseconds from the start of a diagnostics run to handing them to the transport, per document (for the bench). */
+  const lastPublishMs = new Map<string, number>();
 
   const log = (s: string) => {
     try {
@@ -104,6 +106,7 @@ export function startServer(connection: Connection, deps: ServerDeps = {}): Serv
     const doc = documents.get(uri);
     if (!doc) return;
     const version = doc.version;
+    const started = now();
     let a: NoteAnalysis;
     try {
       a = store.analyze(uri, version, doc.getText(), settings);
@@ -115,7 +118,9 @@ export function startServer(connection: Connection, deps: ServerDeps = {}): Serv
     await yieldToQueue();
     const current = documents.get(uri);
     if (!current || current.version !== version) return;
-    await connection.sendDiagnostics({ uri, version, diagnostics: [...noteDiagnostics(a), ...safely(() => stampDiagnostics(a, settings.significantFigures), [])] });
+    const diagnostics = [...noteDiagnostics(a), ...safely(() => stampDiagnostics(a, settings.significantFigures), [])];
+    lastPublishMs.set(uri, now() - started);
+    await connection.sendDiagnostics({ uri, version, diagnostics });
     void connection.sendNotification(NOTE_SUMMARY_NOTIFICATION, noteSummary(a));
   }
 
@@ -170,7 +175,7 @@ export function startServer(connection: Connection, deps: ServerDeps = {}): Serv
 
   connection.onRequest(STATS_REQUEST, (p: { uri: string }) => {
     const a = store.get(p?.uri);
-    return a ? { version: a.version, evaluationMs: a.evaluationMs, reused: a.reused, blocks: a.blocks.length } : null;
+    return a ? { version: a.version, evaluationMs: a.evaluationMs, analysisMs: a.analysisMs, publishMs: lastPublishMs.get(a.uri) ?? null, reused: a.reused, blocks: a.blocks.length } : null;
   });
 
   // The first evaluation of a note runs at once; later edits wait for a pause in typing.

@@ -81,6 +81,17 @@ describe.skipIf(!!reason)('extension in a real VS Code (code-server + chromium)'
     }
   }
 
+  async function runCommand(title: string) {
+    await page.keyboard.press('F1');
+    const input = page.locator('.quick-input-widget input');
+    await input.waitFor({ timeout: 15_000 });
+    await input.fill(`>${title}`);
+    const row = page.locator('.quick-input-widget .monaco-list-row', { hasText: title }).first();
+    await row.waitFor({ timeout: 15_000 });
+    await row.click();
+    await page.waitForTimeout(500);
+  }
+
   /** Scrolls the editor so the line containing `text` is on screen. */
   async function reveal(text: string) {
     await page.keyboard.press('Control+Home');
@@ -97,8 +108,7 @@ describe.skipIf(!!reason)('extension in a real VS Code (code-server + chromium)'
     // Inlay hints arrive once the extension and the server are up (7-11 s after opening in practice).
     await page.locator('.monaco-editor .view-line', { hasText: '= 536 mm' }).first().waitFor({ timeout: 90_000 });
     await page.screenshot({ path: join(ARTIFACTS, '1-inline-results.png') });
-    const lensTexts = await page.locator('.codelens-decoration').allInnerTexts();
-    expect(lensTexts.join(' ')).toMatch(/open calculation sheet/);
+    await page.locator('.codelens-decoration', { hasText: 'open calculation sheet' }).first().waitFor({ timeout: 30_000 });
 
     // Hover the section name; the first hover can come before the server is ready, so retry.
     const name = page.locator('.monaco-editor .view-line', { hasText: 'section G2' }).first().locator('span', { hasText: /^G2$/ }).first();
@@ -128,6 +138,15 @@ describe.skipIf(!!reason)('extension in a real VS Code (code-server + chromium)'
 
     const status = await page.locator('.statusbar-item', { hasText: 'Tauline' }).first().innerText();
     expect(status).toMatch(/checks? OK/);
+
+    // The lens over a block opens the calculation sheet beside the note.
+    await page.mouse.move(5, 5);
+    await page.keyboard.press('Escape');
+    await page.locator('.codelens-decoration a', { hasText: 'open calculation sheet' }).first().click();
+    await page.locator('.tabs-container .tab', { hasText: 'Calculation sheet' }).first().waitFor({ timeout: 30_000 });
+    await page.waitForTimeout(1500);
+    await page.screenshot({ path: join(ARTIFACTS, '4-calculation-sheet.png') });
+    await runCommand('View: Close All Editors');
   });
 
   it('squiggles a failing check and explains it on hover', async () => {
