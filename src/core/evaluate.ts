@@ -110,7 +110,8 @@ export function unitFromTerms(terms: UnitTerm[], ctx: EvalContext): { factor: nu
 
 function unitHint(name: string): string {
   const hints: Record<string, string> = { KN: ' Did you mean kN?', kn: ' Did you mean kN?', Mpa: ' Did you mean MPa?', mpa: ' Did you mean MPa?', MM: ' Did you mean mm?', Kip: ' Did you mean kip?', KSI: ' Did you mean ksi?' };
-  return hints[name] ?? '';
+  // Own keys only: a note may write `1 __proto__` or `1 constructor`.
+  return Object.prototype.hasOwnProperty.call(hints, name) ? hints[name]! : '';
 }
 
 function asQuantity(v: Value, e: Expr, ctx: EvalContext, what: string): Quantity {
@@ -171,10 +172,16 @@ export function evaluate(e: Expr, ctx: EvalContext): Value {
       return quantity(v.si, v.dim, { text: u.text, factor: u.factor });
     }
     case 'member':
-      return record(ctx, e, member(e, ctx));
+      return record(ctx, e, finiteValue(member(e, ctx), e, ctx));
     case 'call':
-      return record(ctx, e, call(e, ctx));
+      return record(ctx, e, finiteValue(call(e, ctx), e, ctx));
   }
+}
+
+/** Members and calls read the engines' numbers: one that is not finite becomes a diagnostic here, never a result. */
+function finiteValue(v: Value, e: Expr, ctx: EvalContext): Value {
+  if (v.kind === 'quantity') finite(v.si, e, ctx);
+  return v;
 }
 
 function resolveName(name: string, e: Expr, ctx: EvalContext): Value {

@@ -116,7 +116,8 @@ export function evaluateNote(text: string, options: NoteOptions = {}, cache?: No
 }
 
 function sameLayout(a: Block, b: Block): boolean {
-  if (a.fenceLine !== b.fenceLine || a.lines.length !== b.lines.length || a.index !== b.index) return false;
+  // The cached result carries its Block: title, closing fence and end line must match too, or a stale one leaks out.
+  if (a.fenceLine !== b.fenceLine || a.lines.length !== b.lines.length || a.index !== b.index || a.title !== b.title || a.closed !== b.closed || a.endLine !== b.endLine) return false;
   for (let i = 0; i < a.lines.length; i++) if (a.lines[i]!.column !== b.lines[i]!.column) return false;
   return true;
 }
@@ -270,13 +271,16 @@ function makeCheck(st: Extract<Statement, { kind: 'check' }>, l: Quantity, r: Qu
     if (demand === 0) ratio = 0;
     else throw new NoteError('check.zero', 'The limit of this check is zero, so no utilisation ratio exists; write a non-zero limit.', { line: st.line, start: st.left.start, end: st.right.end });
   } else ratio = demand / capacity;
+  // A limit a hair above zero (or a demand near the float limit) overflows the ratio: no number to show.
+  if (!Number.isFinite(ratio)) throw new NoteError('check.zero', 'The limit of this check is so close to zero that no utilisation ratio can be shown; write a realistic limit.', { line: st.line, start: st.left.start, end: st.right.end });
   return { line: st.line, text: st.text, op: st.op, left: l, right: r, pass, ratio, leftText: fmt(l), rightText: fmt(r) };
 }
 
 /** "66.6 kN": in the unit the note wrote for it, else the unit system's choice for its dimension. */
 export function formatQuantity(q: Quantity, system: UnitSystem, sig?: number): string {
   const unit = q.shown ?? preferredUnit(q.dim, q.si, system);
-  if (unit) {
+  // 1e308 mm² is a finite 1e302 m² that overflows in mm²: show such a value in SI base units.
+  if (unit && Number.isFinite(q.si / unit.factor)) {
     const n = formatNumber(q.si / unit.factor, { significantFigures: sig });
     return unit.text ? `${n} ${unit.text}` : n;
   }

@@ -82,6 +82,12 @@ export function evaluateSectionStatement(st: Extract<Statement, { kind: 'section
       : { code: problem.code, severity: problem.severity, message: `${st.target.name}: ${problem.message}`, line: st.line, column: st.target.start, endColumn: st.target.end });
   }
   if (!out.section || out.problems.some((p) => p.severity === 'error')) return { diagnostics };
+  const s = out.section;
+  // Parts of wildly different sizes or far-apart positions can exhaust the floats the properties are computed in.
+  if (![s.area, s.I, s.Iy, s.Ixy, s.centroidX, s.centroidY, s.depth].every(Number.isFinite)) {
+    diagnostics.push({ code: 'section.not-finite', severity: 'error', message: `The properties of ${st.target.name} cannot be computed: its parts' sizes or positions span too wide a range. Check the dimensions and \`at\` positions.`, line: st.line, column: st.target.start, endColumn: st.target.end });
+    return { diagnostics };
+  }
   return { value: { kind: 'section', name: st.target.name, title: st.title, section: out.section }, diagnostics };
 }
 
