@@ -87,9 +87,31 @@ describe.skipIf(!!reason)('extension in a real VS Code (code-server + chromium)'
     await input.waitFor({ timeout: 15_000 });
     await input.fill(`>${title}`);
     const row = page.locator('.quick-input-widget .monaco-list-row', { hasText: title }).first();
-    await row.waitFor({ timeout: 15_000 });
+    try {
+      await row.waitFor({ timeout: 15_000 });
+    } catch (e) {
+      await page.screenshot({ path: join(ARTIFACTS, 'failed-command.png') });
+      throw e;
+    }
     await row.click();
     await page.waitForTimeout(500);
+  }
+
+  async function pickTheme(theme: string) {
+    await page.mouse.move(5, 5);
+    await page.keyboard.press('Escape');
+    await runCommand('Preferences: Color Theme');
+    const input = page.locator('.quick-input-widget input');
+    await input.fill(theme);
+    const row = page.locator('.quick-input-widget .monaco-list-row', { hasText: new RegExp(`^\\s*${theme}`) }).first();
+    try {
+      await row.waitFor({ timeout: 15_000 });
+    } catch (e) {
+      await page.screenshot({ path: join(ARTIFACTS, 'failed-theme.png') });
+      throw e;
+    }
+    await row.click();
+    await page.waitForTimeout(800);
   }
 
   /** Scrolls the editor so the line containing `text` is on screen. */
@@ -138,6 +160,32 @@ describe.skipIf(!!reason)('extension in a real VS Code (code-server + chromium)'
 
     const status = await page.locator('.statusbar-item', { hasText: 'Tauline' }).first().innerText();
     expect(status).toMatch(/checks? OK/);
+
+    // A dark theme: the picture's colours are baked in from the theme kind the extension reports.
+    const lightSrc = await hover.locator('img[src^="data:image/svg+xml"]').first().getAttribute('src');
+    await pickTheme('Dark Modern');
+    await page.locator('.monaco-workbench.vs-dark').waitFor({ timeout: 30_000 });
+    let darkSrc: string | null = null;
+    for (let attempt = 0; attempt < 20 && (!darkSrc || darkSrc === lightSrc); attempt++) {
+      await page.mouse.move(5, 5);
+      await page.waitForTimeout(300);
+      const box = await name.boundingBox();
+      if (!box) throw new Error('the section name is not on screen');
+      await page.mouse.move(box.x + box.width / 2, box.y + box.height / 2);
+      try {
+        await hover.locator('img[src^="data:image/svg+xml"]').first().waitFor({ timeout: 2500 });
+        darkSrc = await hover.locator('img[src^="data:image/svg+xml"]').first().getAttribute('src');
+      } catch {
+        // not yet
+      }
+    }
+    expect(darkSrc).not.toBe(lightSrc);
+    const darkSvg = Buffer.from(darkSrc!.split(',')[1]!, 'base64').toString('utf8');
+    expect(darkSvg).toContain('#e2e6eb'); // the dark figure's ink
+    await page.waitForTimeout(400);
+    await page.screenshot({ path: join(ARTIFACTS, '2b-hover-section-dark.png') });
+    await pickTheme('Light Modern');
+    await page.locator('.monaco-workbench.vs').waitFor({ timeout: 30_000 });
 
     // The lens over a block opens the calculation sheet beside the note.
     await page.mouse.move(5, 5);
