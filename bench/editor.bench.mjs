@@ -94,6 +94,25 @@ for (let i = 0; i < 30; i++) {
   reused = stats.reused;
 }
 
+// A line added in block 100 moves every later block down; the core re-evaluates a block whose
+// lines moved, so this edit costs more than one that keeps the layout. Measured for the record.
+const insert = [];
+let insertReused = 0;
+for (let i = 0; i < 6; i++) {
+  version++;
+  const done = published(uri, version);
+  const add = i % 2 === 0;
+  const t0 = now();
+  await conn.sendNotification('textDocument/didChange', {
+    textDocument: { uri, version },
+    contentChanges: [add
+      ? { range: { start: { line: editLine + 1, character: 0 }, end: { line: editLine + 1, character: 0 } }, text: `# note ${i}\n` }
+      : { range: { start: { line: editLine + 1, character: 0 }, end: { line: editLine + 2, character: 0 } }, text: '' }],
+  });
+  insert.push((await done) - t0);
+  insertReused = Math.min(insertReused || Infinity, (await conn.sendRequest('tauline/evaluationStats', { uri })).reused);
+}
+
 // Hover latency: section names, quantities, calls and checks all over the note.
 const targets = [];
 lines.forEach((l, n) => {
@@ -122,6 +141,7 @@ console.log(`one-line edit, keystroke to diagnostics over stdio: median ${ms(edi
 console.log(`  of which: whole analysis ${ms(median(editAnalysis))}, evaluation to diagnostics handed to the transport ${ms(median(editPublish))}`);
 console.log(`ratio edit / full, round trip:       ${(100 * editRound / fullRound).toFixed(1)} %  (target < 5 %)`);
 console.log(`ratio edit / full, evaluation only:  ${(100 * median(editServer) / median(fullServer)).toFixed(1)} %`);
+console.log(`line-adding edit in block 100: median ${ms(median(insert))} (${(100 * median(insert) / fullRound).toFixed(1)} % of full; as few as ${insertReused} of 200 blocks reused)`);
 console.log(`hover latency over stdio (${hover.length} hovers): p50 ${ms(percentile(hover, 50))}, p95 ${ms(percentile(hover, 95))}`);
 
 // Bundles.
