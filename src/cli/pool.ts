@@ -54,17 +54,20 @@ export async function runNoteTasks(tasks: readonly NoteTask[], options: PoolOpti
         resolve();
       };
       const feed = () => {
-        // Two tasks in flight per worker hide the message round trip.
+        // Two batches in flight per worker hide the message round trip; batches shrink towards
+        // the end of the queue so the threads finish together.
         while (inFlight.size < 2 && next < tasks.length) {
-          const id = next++;
-          inFlight.add(id);
-          worker.postMessage({ id, task: tasks[id] });
+          const size = Math.max(1, Math.min(16, Math.floor((tasks.length - next) / (jobs * 8))));
+          const ids: number[] = [];
+          for (let k = 0; k < size && next < tasks.length; k++) ids.push(next++);
+          inFlight.add(ids[0]!);
+          worker.postMessage({ ids, tasks: ids.map((id) => tasks[id]) });
         }
         if (inFlight.size === 0) finish();
       };
-      worker.on('message', (m: { id: number; outcome: NoteOutcome }) => {
-        outcomes[m.id] = m.outcome;
-        inFlight.delete(m.id);
+      worker.on('message', (m: { ids: number[]; outcomes: NoteOutcome[] }) => {
+        m.ids.forEach((id, k) => (outcomes[id] = m.outcomes[k]));
+        inFlight.delete(m.ids[0]!);
         feed();
       });
       // A worker that dies leaves its notes to the main thread; the output stays complete.
