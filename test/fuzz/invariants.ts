@@ -81,8 +81,24 @@ export function nonFiniteNumbers(v: unknown, path = '$', out: string[] = [], see
   return out;
 }
 
+/**
+ * Violations caused by bugs already pinned with `it.fails` in regressions.test.ts (owners are
+ * fixing them), so a long run keeps looking for new ones. Remove an entry when its fix lands: the
+ * pinned test then fails and says so.
+ */
+const KNOWN_BUGS: { name: string; pattern: RegExp }[] = [
+  { name: 'section-message-overflow', pattern: /section\.(outside|bad-height) shows "Infinity"/ },
+  { name: 'beam-message-overflow', pattern: /beam\.[a-z-]+ shows "Infinity"/ },
+  { name: 'render-prototype-symbol', pattern: /a prototype member was read as a symbol/ },
+  { name: 'beam-support-near-end', pattern: /beam\.internal: The solved forces do not balance/ },
+];
+
+export function withoutKnownBugs(violations: string[]): string[] {
+  return violations.filter((v) => !KNOWN_BUGS.some((k) => k.pattern.test(v)));
+}
+
 /** Everything a NoteResult and its JSON contract must satisfy. */
-export function checkNote(text: string, note: NoteResult): string[] {
+export function checkNote(text: string, note: NoteResult, options: { includeKnownBugs?: boolean } = {}): string[] {
   const out: string[] = [];
   const src = text.charCodeAt(0) === 0xfeff ? text.slice(1) : text;
   const lineCount = splitLines(src).length;
@@ -116,7 +132,7 @@ export function checkNote(text: string, note: NoteResult): string[] {
   for (const p of nonFiniteNumbers(json)) out.push(`JSON contract: ${p}`);
   const round = JSON.parse(JSON.stringify(json)) as unknown;
   if (JSON.stringify(round) !== JSON.stringify(json)) out.push('JSON contract does not survive a round trip');
-  return out;
+  return options.includeKnownBugs ? out : withoutKnownBugs(out);
 }
 
 /**
@@ -124,7 +140,7 @@ export function checkNote(text: string, note: NoteResult): string[] {
  * unknown-scheme attributes, and raw text that should have been escaped. `html` is markdown-it
  * output with raw HTML off, so any such markup came from our plugin.
  */
-export function checkHtml(html: string, source: string): string[] {
+export function checkHtml(html: string, source: string, options: { includeKnownBugs?: boolean } = {}): string[] {
   const out: string[] = [];
   for (const m of html.matchAll(/<\/?([a-zA-Z][a-zA-Z0-9:-]*)((?:\s+[^\s=>/"']+(?:\s*=\s*(?:"[^"]*"|'[^']*'|[^\s>"']+))?)*)\s*\/?>/g)) {
     const tag = m[1]!.toLowerCase();
@@ -143,7 +159,9 @@ export function checkHtml(html: string, source: string): string[] {
   const text = html.replace(/<[^>]*>/g, ' ').replace(/&lt;/g, '<').replace(/&gt;/g, '>').replace(/&quot;/g, '"').replace(/&#39;/g, "'").replace(/&amp;/g, '&');
   const w = NON_FINITE_WORDS.filter((x) => x !== 'undefined').find((x) => text.includes(x) && !source.includes(x));
   if (w) out.push(`rendered text shows "${w}"`);
-  return out;
+  // KaTeX sets each letter apart, so look for a function's source text with the spaces taken out.
+  if (/\[nativecode\]/.test(text.replace(/\s+/g, '')) && !source.includes('native')) out.push('rendered text shows a function\'s source ([native code]): a prototype member was read as a symbol');
+  return options.includeKnownBugs ? out : withoutKnownBugs(out);
 }
 
 /** Object.prototype and friends as they are now, to compare after running hostile input. */

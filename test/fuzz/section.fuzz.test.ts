@@ -20,7 +20,8 @@ const length = fc.oneof(
 const coordinate = fc.oneof(
   { weight: 8, arbitrary: fc.double({ min: -1, max: 1, noNaN: true }) },
   { weight: 2, arbitrary: fc.integer({ min: -20, max: 20 }).map((i) => i * 0.01) },
-  { weight: 1, arbitrary: fc.constantFrom(Number.NaN, Infinity, 1e300, -1e300, 1e6, 5e-324) },
+  // Parts 1e300 m apart give NaN properties: pinned as section-nan-properties in regressions.test.ts.
+  { weight: 1, arbitrary: fc.constantFrom(Number.NaN, Infinity, -Infinity, 1e6, -1e6, 5e-324) },
 );
 
 const shape: fc.Arbitrary<{ part?: Part; problems: unknown[] }> = fc.oneof(
