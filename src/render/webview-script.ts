@@ -21,9 +21,11 @@ interface MessageEvent {
 }
 declare const window: {
   scrollY: number;
+  history: { scrollRestoration: string };
   scrollTo(x: number, y: number): void;
   addEventListener(type: 'scroll', listener: () => void, options?: { passive: boolean }): void;
   addEventListener(type: 'message', listener: (event: MessageEvent) => void): void;
+  addEventListener(type: 'load', listener: () => void): void;
 };
 declare const document: {
   title: string;
@@ -51,12 +53,21 @@ declare function requestAnimationFrame(callback: () => void): number;
     window.scrollTo(0, typeof y === 'number' ? y : 0);
   };
 
+  // The position is ours to restore; and again once fonts and styles have settled the layout.
+  window.history.scrollRestoration = 'manual';
   restore();
+  // Until the page has loaded, scroll events are our own restoring against a layout still growing: not saved.
+  let settled = false;
+  window.addEventListener('load', () => {
+    restore();
+    settled = true;
+    save();
+  });
   let queued = false;
   window.addEventListener(
     'scroll',
     () => {
-      if (queued) return;
+      if (queued || !settled) return;
       queued = true;
       requestAnimationFrame(() => {
         queued = false;
@@ -83,6 +94,4 @@ declare function requestAnimationFrame(callback: () => void): number;
     else window.scrollTo(0, y);
     save();
   });
-  state = readPageState(api.getState() ?? state);
-  save();
 })();
