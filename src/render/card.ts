@@ -36,7 +36,7 @@ export interface RenderBudget {
 }
 
 export function defaultBudget(): RenderBudget {
-  return { formulas: 6000, figures: 400 };
+  return { formulas: 10000, figures: 1000 };
 }
 
 /** Rows beyond this many in one block are summarised instead of rendered. */

@@ -156,6 +156,19 @@ function textWidth(s: string, size = 11): number {
   return s.length * size * 0.62;
 }
 
+/** A path through points at 0.1 px, repeated points dropped: curves of a hundred samples stay small. */
+function polyline(points: [number, number][]): string {
+  let d = '';
+  let last = '';
+  for (const [x, y] of points) {
+    const pt = `${num(x, 1)} ${num(y, 1)}`;
+    if (pt === last) continue;
+    d += (d ? 'L' : 'M') + pt;
+    last = pt;
+  }
+  return d;
+}
+
 // ---- the section ---------------------------------------------------------------------------
 
 interface SectionGeometry {
@@ -330,13 +343,8 @@ function drawTau(
   const scale = tauScale(section, V, peakPerV, o);
   const sx = plotWidth / peakPerV;
   const X = (perV: number) => x0 + Math.abs(perV) * sx;
-  let d = `M${num(x0)} ${num(Y(profile.y[0]!))}`;
-  for (let i = 0; i < profile.y.length; i++) d += `L${num(X(profile.tauPerV[i]!))} ${num(Y(profile.y[i]!))}`;
-  d += `L${num(x0)} ${num(Y(profile.y[profile.y.length - 1]!))}Z`;
-  out += `<path class="tl-fig-tau-fill" d="${d}" fill="${p.accent}" fill-opacity="${p.accentOpacity}" stroke="none"/>`;
-  let curve = '';
-  for (let i = 0; i < profile.y.length; i++) curve += `${i === 0 ? 'M' : 'L'}${num(X(profile.tauPerV[i]!))} ${num(Y(profile.y[i]!))}`;
-  out += `<path class="tl-fig-tau" d="${curve}" fill="none" stroke="${p.accent}" stroke-width="1.6" stroke-linejoin="round"/>`;
+  // One path, filled and stroked: down the axis is part of its outline, where the axis line is drawn anyway.
+  out += `<path class="tl-fig-tau tl-fig-tau-fill" d="${polyline([[x0, Y(profile.y[0]!)], ...Array.from(profile.y, (y, i) => [X(profile.tauPerV[i]!), Y(y)] as [number, number]), [x0, Y(profile.y[profile.y.length - 1]!)]])}Z" fill="${p.accent}" fill-opacity="${p.accentOpacity}" stroke="${p.accent}" stroke-width="1.6" stroke-linejoin="round"/>`;
   let right = x0 + plotWidth;
 
   const label = (py: number, px: number, body: string, cls = 'tl-fig-ink'): boolean => {
@@ -454,9 +462,7 @@ export function sparkline(section: Section, V: number | undefined, options: Spar
   const X = (y: number) => pad + (y / section.depth) * (width - 2 * pad);
   const Y = (t: number) => height - pad - (peak > 0 ? (Math.abs(t) / peak) * (height - 2 * pad) : 0);
   out += line(pad, height - pad, width - pad, height - pad, p.muted, 'tl-fig-axis', ` stroke-width="0.6"${p.muted === 'currentColor' ? ' stroke-opacity="0.5"' : ''}`);
-  let d = `M${num(X(profile.y[0]!))} ${num(Y(0))}`;
-  for (let i = 0; i < profile.y.length; i++) d += `L${num(X(profile.y[i]!))} ${num(Y(profile.tauPerV[i]!))}`;
-  d += `L${num(X(profile.y[profile.y.length - 1]!))} ${num(Y(0))}Z`;
+  const d = polyline([[X(profile.y[0]!), Y(0)], ...Array.from(profile.y, (y, i) => [X(y), Y(profile.tauPerV[i]!)] as [number, number]), [X(profile.y[profile.y.length - 1]!), Y(0)]]) + 'Z';
   out += `<path class="tl-fig-tau-fill" d="${d}" fill="${p.accent}" fill-opacity="${p.accentOpacity}" stroke="${p.accent}" stroke-width="1" stroke-linejoin="round"/>`;
   const na = X(section.centroidY);
   out += line(na, pad, na, height - pad, p.axis, 'tl-fig-na', ' stroke-width="0.6" stroke-dasharray="2 1.5"');
@@ -649,16 +655,11 @@ function drawDiagramPanel(d: PanelInput): string {
   // The panel's name sits in the left margin, clear of the value labels.
   let out = text(d.left - 12, d.top + d.height / 2 + 4, d.title, p, ' text-anchor="end"', 'tl-fig-muted');
   // Envelope band: the upper bound clipped at zero from below, the lower bound from above.
-  let upper = '';
-  let lower = '';
-  for (let i = 0; i < d.x.length; i++) upper += `${i === 0 ? 'M' : 'L'}${num(X(d.x[i]!))} ${num(Y(Math.max(d.hi[i]!, 0)))}`;
-  for (let i = d.x.length - 1; i >= 0; i--) lower += `L${num(X(d.x[i]!))} ${num(Y(Math.min(d.lo[i]!, 0)))}`;
-  out += `<path class="${d.className}-fill" d="${upper}${lower}Z" fill="${p.positive}" fill-opacity="${p.fillOpacity}" stroke="none"/>`;
-  const curve = (vals: Float64Array) => {
-    let s = '';
-    for (let i = 0; i < d.x.length; i++) s += `${i === 0 ? 'M' : 'L'}${num(X(d.x[i]!))} ${num(Y(vals[i]!))}`;
-    return s;
-  };
+  const band: [number, number][] = [];
+  for (let i = 0; i < d.x.length; i++) band.push([X(d.x[i]!), Y(Math.max(d.hi[i]!, 0))]);
+  for (let i = d.x.length - 1; i >= 0; i--) band.push([X(d.x[i]!), Y(Math.min(d.lo[i]!, 0))]);
+  out += `<path class="${d.className}-fill" d="${polyline(band)}Z" fill="${p.positive}" fill-opacity="${p.fillOpacity}" stroke="none"/>`;
+  const curve = (vals: Float64Array) => polyline(Array.from(d.x, (x, i) => [X(x), Y(vals[i]!)] as [number, number]));
   out += `<path class="${d.className}" d="${curve(d.hi)}" fill="none" stroke="${p.positive}" stroke-width="1.5" stroke-linejoin="round"/>`;
   if (d.lo !== d.hi) out += `<path class="${d.className}" d="${curve(d.lo)}" fill="none" stroke="${p.positive}" stroke-width="1.5" stroke-linejoin="round"/>`;
   out += line(X(0), zero, X(d.span), zero, p.muted, 'tl-fig-axis', ' stroke-width="0.8"');
