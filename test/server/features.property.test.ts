@@ -24,19 +24,32 @@ const LINES = [
   '<!-- tauline-results -->', '<!-- /tauline-results -->', '| `V` | 1 kN | |',
 ];
 
+/** Coherent pieces (a section with its parts, a beam with its loads) so that many notes evaluate. */
+const CHUNKS = [
+  ['section S: test', '  plate 100 mm x 200 mm'],
+  ['section S: built up', '  plate 200 mm x 20 mm', '  plate 10 mm x 300 mm', '  plate 200 mm x 20 mm'],
+  ['section S: tube', '  tube 200 mm, 10 mm'],
+  ['beam B: 6 m', '  pin at 0 m', '  roller at 6 m', '  udl 10 kN/m'],
+  ['beam B: 6 m', '  fixed at 0 m', '  dead: point 5 kN at 6 m', '  live: udl 2 kN/m', '  combine U = 1.2 dead + 1.6 live'],
+  ['V = B.Vmax', 't = tau_max(S, V)', 'check t <= 1 MPa'],
+  ['V = 20 kN', 'q = flow(S, V, S.yc)', 'check q <= 100 kN/m'],
+];
+
 const note = fc
   .array(
     fc.oneof(
-      { weight: 6, arbitrary: fc.constantFrom(...LINES) },
-      { weight: 1, arbitrary: fc.string({ maxLength: 30 }) },
-      { weight: 1, arbitrary: fc.constantFrom('```shear Block', '```shear', '```', '~~~shear', 'Prose between blocks.', '## Heading') },
+      { weight: 4, arbitrary: fc.constantFrom(...CHUNKS) },
+      { weight: 3, arbitrary: fc.constantFrom(...LINES).map((l) => [l]) },
+      { weight: 1, arbitrary: fc.string({ maxLength: 30 }).map((l) => [l]) },
+      { weight: 1, arbitrary: fc.constantFrom('```shear Block', '```shear', '```', '~~~shear', 'Prose between blocks.', '## Heading').map((l) => [l]) },
     ),
-    { maxLength: 40 },
+    { maxLength: 30 },
   )
-  .map((lines) => ['# Note', '', '```shear First', ...lines, '```', ''].join('\n'));
+  .map((chunks) => ['# Note', '', '```shear First', ...chunks.flat(), '```', ''].join('\n'));
 
 describe('editor features on arbitrary notes', () => {
   it('never throw and stay inside the document', () => {
+    let pictures = 0;
     fc.assert(
       fc.property(note, fc.constantFrom('light', 'dark', 'unknown') as fc.Arbitrary<'light' | 'dark' | 'unknown'>, fc.boolean(), (text, themeKind, evaluate) => {
         const settings = { ...DEFAULT_SETTINGS, themeKind, evaluate };
@@ -57,7 +70,10 @@ describe('editor features on arbitrary notes', () => {
             const h = hover(a, pos, settings);
             const md = h ? (h.contents as { value: string }).value : '';
             expect(md.length).toBeLessThan(100_000);
-            for (const m of md.matchAll(/data:image\/svg\+xml;base64,([^)]*)\)/g)) expect(m[1]).toMatch(/^[A-Za-z0-9+/]+=*$/);
+            for (const m of md.matchAll(/data:image\/svg\+xml;base64,([^)]*)\)/g)) {
+              expect(m[1]).toMatch(/^[A-Za-z0-9+/]+=*$/);
+              pictures++;
+            }
             completions(a, pos, settings, true);
             signatureHelp(a, pos);
             const def = definition(a, pos);
@@ -68,5 +84,7 @@ describe('editor features on arbitrary notes', () => {
       }),
       { numRuns: 200 },
     );
+    // The generator reaches the interesting cases: sections, beams and checks that evaluate.
+    expect(pictures).toBeGreaterThan(50);
   });
 });
