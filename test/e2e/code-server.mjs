@@ -56,6 +56,7 @@ export function ensureCodeServer(root, log = (s) => process.stderr.write(s + '\n
     log('note: Debian chromium is not installed (apt-get install -y chromium); the editor can still be opened from another browser.');
   }
   if (!registryReachable()) throw new Error('the npm registry cannot be reached, so code-server cannot be installed');
+  ensureKerberosHeaders(log);
   mkdirSync(p.e2e, { recursive: true });
   if (!existsSync(p.node)) {
     log(`installing Node ${NODE24_VERSION} from npm into ${p.node24Dir} (one time, ~1 min)…`);
@@ -77,6 +78,20 @@ export function ensureCodeServer(root, log = (s) => process.stderr.write(s + '\n
     }
   }
   return p;
+}
+
+/** code-server's kerberos module compiles against the MIT Kerberos headers (Debian's libkrb5-dev). */
+function ensureKerberosHeaders(log) {
+  if (existsSync('/usr/include/krb5.h') || existsSync('/usr/include/krb5/krb5.h')) return;
+  const root = typeof process.getuid === 'function' && process.getuid() === 0;
+  if (!root || spawnSync('which', ['apt-get']).status !== 0) {
+    log('note: the Kerberos headers are missing (apt-get install -y libkrb5-dev); the code-server install may fail.');
+    return;
+  }
+  log('installing libkrb5-dev from Debian (needed to build code-server)…');
+  const env = { ...process.env, DEBIAN_FRONTEND: 'noninteractive' };
+  spawnSync('apt-get', ['update', '-qq'], { stdio: 'ignore', env });
+  spawnSync('apt-get', ['install', '-y', '-qq', '--no-install-recommends', 'libkrb5-dev'], { stdio: 'ignore', env });
 }
 
 export function freePort() {

@@ -24,7 +24,19 @@ function skipReason(): string | undefined {
   return undefined;
 }
 
-const reason = skipReason();
+/** Installs the editor on first use (minutes, once) while the suite is collected, so a failed install is a skip with its reason, not a failure. */
+function prepare(): string | undefined {
+  const why = skipReason();
+  if (why) return why;
+  try {
+    ensureCodeServer(ROOT, (l) => console.log(`[e2e] ${l}`));
+    return undefined;
+  } catch (e) {
+    return `code-server could not be installed into .e2e/ (${e instanceof Error ? e.message : String(e)})`;
+  }
+}
+
+const reason = prepare();
 if (reason) console.log(`[e2e] skipped: ${reason}`);
 
 describe.skipIf(!!reason)('extension in a real VS Code (code-server + chromium)', () => {
