@@ -9,7 +9,7 @@ import { runCheck } from './check';
 const USAGE = `tauline: beam shear calculations in Markdown
 
 usage:
-  tauline check  [PATHS...] [--json] [--frozen] [--format text|json|github]
+  tauline check  [PATHS...] [--json] [--frozen] [--format text|json|github] [--jobs N]
   tauline stamp  [PATHS...]
   tauline report [PATHS...] [-o DIR]
   tauline diff   [REV_A] [REV_B] [PATHS...] [--format text|markdown|json]
@@ -20,6 +20,10 @@ error or a stamp is stale (--frozen); 2: bad command line or unreadable file.`;
 
 export async function main(argv: string[]): Promise<number> {
   const [command, ...rest] = argv;
+  // `tauline check | head` closes stdout early: stop quietly instead of crashing.
+  process.stdout.on('error', (e: NodeJS.ErrnoException) => {
+    if (e.code === 'EPIPE') process.exit(process.exitCode ?? 0);
+  });
   const out = (s: string) => process.stdout.write(s);
   const err = (s: string) => process.stderr.write(s);
   try {
@@ -28,14 +32,19 @@ export async function main(argv: string[]): Promise<number> {
         const { values, positionals } = parseArgs({
           args: rest,
           allowPositionals: true,
-          options: { json: { type: 'boolean' }, frozen: { type: 'boolean' }, format: { type: 'string' }, 'significant-figures': { type: 'string' } },
+          options: { json: { type: 'boolean' }, frozen: { type: 'boolean' }, format: { type: 'string' }, jobs: { type: 'string' } },
         });
         const format = values.json ? 'json' : (values.format ?? 'text');
         if (!['text', 'json', 'github'].includes(format)) {
           err(`tauline: unknown --format ${format} (text, json or github)\n`);
           return 2;
         }
-        return await runCheck({ paths: positionals, cwd: process.cwd(), format: format as 'text' | 'json' | 'github', frozen: !!values.frozen, out, err });
+        const jobs = values.jobs === undefined ? undefined : Number(values.jobs);
+        if (jobs !== undefined && !(Number.isInteger(jobs) && jobs >= 1 && jobs <= 64)) {
+          err(`tauline: --jobs takes a whole number from 1 to 64\n`);
+          return 2;
+        }
+        return await runCheck({ paths: positionals, cwd: process.cwd(), format: format as 'text' | 'json' | 'github', frozen: !!values.frozen, jobs, out, err });
       }
       case 'stamp': {
         const { runStamp } = await import('./stamp');
