@@ -93,7 +93,8 @@ const PALETTES: Record<FigureColors, Palette> = {
 const FONT = "system-ui,-apple-system,'Segoe UI',Roboto,sans-serif";
 
 function paletteOf(o: FigureOptions): Palette {
-  return PALETTES[o.colors ?? 'currentColor'] ?? PALETTES.currentColor;
+  const c = o.colors ?? 'currentColor';
+  return Object.prototype.hasOwnProperty.call(PALETTES, c) ? PALETTES[c] : PALETTES.currentColor;
 }
 
 function svgOpen(width: number, height: number, title: string | undefined, cls: string, p: Palette): string {

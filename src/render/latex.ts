@@ -9,6 +9,11 @@ import { formatQuantity } from '../core/note';
 import type { UnitSystem } from '../core/units';
 import type { Quantity, Value } from '../core/values';
 
+/** A table lookup that reads only the table's own keys: a note can name `constructor` or `valueOf`. */
+function own<T>(table: Record<string, T>, key: string): T | undefined {
+  return Object.prototype.hasOwnProperty.call(table, key) ? table[key] : undefined;
+}
+
 const GREEK = new Set([
   'alpha', 'beta', 'gamma', 'delta', 'epsilon', 'zeta', 'eta', 'theta', 'kappa', 'lambda', 'mu', 'nu', 'xi', 'pi', 'rho', 'sigma',
   'tau', 'phi', 'chi', 'psi', 'omega', 'Gamma', 'Delta', 'Theta', 'Lambda', 'Xi', 'Pi', 'Sigma', 'Phi', 'Psi', 'Omega',
@@ -206,7 +211,7 @@ export function exprLatex(e: Expr, mode: LatexMode): string {
     }
     case 'member': {
       const owner = objectPath(e.object);
-      const symbol = MEMBER_SYMBOL[e.member];
+      const symbol = own(MEMBER_SYMBOL, e.member);
       if (owner !== undefined && symbol) return attachSubscript(symbol, `\\mathrm{${owner}}`);
       if (owner !== undefined) return `\\mathrm{${owner}.${ident(e.member)}}`;
       return `${exprLatex(e.object, mode)}.\\mathrm{${ident(e.member)}}`;
@@ -215,7 +220,7 @@ export function exprLatex(e: Expr, mode: LatexMode): string {
       const args = e.args.map((a) => exprLatex(a, mode));
       if (e.callee === 'sqrt' && args.length === 1) return `\\sqrt{${args[0]}}`;
       if (e.callee === 'abs' && args.length === 1) return `\\left|${args[0]}\\right|`;
-      const head = CALL_SYMBOL[e.callee] ?? `\\mathrm{${ident(e.callee)}}`;
+      const head = own(CALL_SYMBOL, e.callee) ?? `\\mathrm{${ident(e.callee)}}`;
       return `${head}\\left(${args.join(',\\,')}\\right)`;
     }
     case 'paren':
