@@ -63,6 +63,7 @@ export function hover(a: NoteAnalysis, pos: Position, settings: ServerSettings):
     if (node.kind === 'member' && res) {
       const v = res.trace.get(node);
       const obj = res.trace.get(node.object);
+      if (v && v.kind === 'beam') return md(beamHover(v, pr, settings.themeKind, undefined));
       if (v && v.kind === 'quantity') {
         const what = obj?.kind === 'section' ? SECTION_MEMBERS[node.member] : obj?.kind === 'beam' ? BEAM_MEMBERS[node.member] : undefined;
         return md([`**${a.lines[line]!.slice(node.start, node.end)}** = ${pr.q(v)}`, what ? `_${what}_` : undefined]);
