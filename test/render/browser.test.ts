@@ -195,6 +195,35 @@ describe.skipIf(!available)('sheets in Chromium', () => {
     }
   });
 
+  it('figures open on their own as images (as hover pictures do): valid SVG documents with their own size', async () => {
+    const { buildSection, plate, translate } = await import('../../src/core/section');
+    const { solveBeam } = await import('../../src/core/beam');
+    const { sectionWithTau, sparkline, beamDiagrams } = await import('../../src/render/figures');
+    const girder = buildSection([
+      { part: plate(0.25, 0.016).part!, hole: false },
+      { part: translate(plate(0.01, 0.52).part!, 0, 0.016), hole: false },
+      { part: translate(plate(0.25, 0.016).part!, 0, 0.536), hole: false },
+    ]).section!;
+    const beam = solveBeam({ span: 6, supports: [{ kind: 'pin', x: 0 }, { kind: 'roller', x: 6 }], loads: [{ kind: 'udl', w: 10_000, x1: 0, x2: 6 }] }).beam!;
+    const svgs = [
+      sectionWithTau(girder, 82_200, { colors: 'light', title: 'a <title> & "quotes"' }),
+      sectionWithTau(girder, undefined, { colors: 'dark' }),
+      sparkline(girder, 1000, { colors: 'light', mark: 0.3 }),
+      beamDiagrams(beam, { colors: 'dark' }),
+    ];
+    const imgs = svgs.map((svg) => `<img src="data:image/svg+xml;base64,${Buffer.from(svg).toString('base64')}">`).join('');
+    const { page, leaks, load } = await openPage();
+    await load(`<!DOCTYPE html><html><body style="background:#777">${imgs}</body></html>`);
+    const sizes = await page.evaluate(() => Promise.all([...document.images].map((img: any) => img.decode().then(() => [img.naturalWidth, img.naturalHeight], () => [0, 0]))));
+    for (const [i, [w, h]] of sizes.entries()) {
+      const m = /width="(\d+)" height="(\d+)"/.exec(svgs[i]!)!;
+      expect([w, h]).toEqual([Number(m[1]), Number(m[2])]);
+    }
+    expect(leaks).toEqual([]);
+    await page.screenshot({ path: join(ARTIFACTS, 'figures-as-images.png'), fullPage: true });
+    await page.close();
+  });
+
   describe('the report panel page', () => {
     const NOTE_A = readFileSync(join(ROOT, 'examples', 'mezzanine-girder.md'), 'utf8');
     const NOTE_B = readFileSync(join(ROOT, 'examples', 'timber-box-footbridge.md'), 'utf8');

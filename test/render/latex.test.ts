@@ -48,6 +48,13 @@ describe('expressions', () => {
       '\\dfrac{\\tau_{\\max}\\left(G_{2},\\,V\\right) \\cdot h_{\\mathrm{G2}}}{V_{\\max,\\mathrm{B1}}}',
     );
   });
+  it('reads only its own symbol tables: members and calls named after prototype keys stay names', () => {
+    for (const line of ['x = B.constructor', 'x = B.valueOf', 'x = toString(a)', 'x = B.__proto__']) {
+      const latex = exprLatex(exprOf(line), { substitute: false, system: 'SI' });
+      expect(latex, line).not.toMatch(/native code|function|\[object/);
+    }
+  });
+
   it('formats the core\'s number text', () => {
     expect(formattedLatex('692×10⁶ mm⁴')).toBe('692\\times 10^{6}\\,\\mathrm{mm^{4}}');
     expect(formattedLatex('63.7 kN/m')).toBe('63.7\\,\\mathrm{kN/m}');
