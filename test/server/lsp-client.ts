@@ -4,7 +4,7 @@
  * JSON-RPC to it over stdio with vscode-jsonrpc.
  */
 import { type ChildProcess, execFileSync, spawn } from 'node:child_process';
-import { existsSync, readdirSync, statSync } from 'node:fs';
+import { closeSync, existsSync, mkdirSync, openSync, readdirSync, rmSync, statSync } from 'node:fs';
 import { join, resolve } from 'node:path';
 import { createMessageConnection, type MessageConnection, StreamMessageReader, StreamMessageWriter } from 'vscode-jsonrpc/node';
 import type { Diagnostic, InitializeResult, PublishDiagnosticsParams } from 'vscode-languageserver-protocol';
@@ -23,9 +23,29 @@ function newestMtime(dir: string): number {
 
 /** Builds the bundles when dist/server.js is missing or older than the sources it is built from. */
 export function ensureBuilt(): void {
-  const sources = Math.max(...['src/server', 'src/core', 'src/render'].filter((d) => existsSync(join(ROOT, d))).map((d) => newestMtime(join(ROOT, d))));
-  if (existsSync(SERVER_JS) && statSync(SERVER_JS).mtimeMs >= sources) return;
-  execFileSync(process.execPath, [join(ROOT, 'scripts', 'build.mjs')], { cwd: ROOT, stdio: 'inherit' });
+  const fresh = () => {
+    const sources = Math.max(...['src/server', 'src/core', 'src/render', 'src/extension'].filter((d) => existsSync(join(ROOT, d))).map((d) => newestMtime(join(ROOT, d))));
+    return existsSync(SERVER_JS) && statSync(SERVER_JS).mtimeMs >= sources;
+  };
+  if (fresh()) return;
+  // Test files run in parallel: one builds, the others wait for it rather than write the same bundles at once.
+  mkdirSync(join(ROOT, 'dist'), { recursive: true });
+  const lock = join(ROOT, 'dist', '.build-lock');
+  const sleep = (ms: number) => Atomics.wait(new Int32Array(new SharedArrayBuffer(4)), 0, 0, ms);
+  for (let waited = 0; ; waited += 200) {
+    try {
+      closeSync(openSync(lock, 'wx'));
+      break;
+    } catch {
+      if (waited > 180_000) rmSync(lock, { force: true });
+      sleep(200);
+    }
+  }
+  try {
+    if (!fresh()) execFileSync(process.execPath, [join(ROOT, 'scripts', 'build.mjs')], { cwd: ROOT, stdio: 'inherit' });
+  } finally {
+    rmSync(lock, { force: true });
+  }
 }
 
 export interface TestClient {
