@@ -6,6 +6,7 @@
 import { describe, expect, it } from 'vitest';
 import { noteToJson } from '../../src/core/contract';
 import { evaluateNote, NoteCache } from '../../src/core/note';
+import { solveBeam } from '../../src/core/beam';
 import { buildSection, plate } from '../../src/core/section';
 import MarkdownIt from 'markdown-it';
 import { TokenCursor, tokenize } from '../../src/core/expression';
@@ -82,16 +83,22 @@ describe('waiting for the section engine (src/core/section, owner editing)', () 
     expect(checkNote(text, evaluateNote(text), { includeKnownBugs: true })).toEqual([]);
   });
 
-  it.fails('BUG section-nan-properties: parts far apart build a section whose A is 0 and I, yc are NaN, with no problem', () => {
+  it.fails('BUG section-non-finite-properties: parts 1e300 m apart, or a circle 1.7e77 m across, build a section whose properties are NaN or Infinity, with no problem', () => {
     const outer = { kind: 'circle' as const, cx: 0, cy: -1e300, r: 5e11 };
     const inner = { ...outer, r: 499999999999.999 };
-    const built = buildSection([
-      { part: plate(0.002, 0.002).part!, hole: false },
-      { part: [{ sign: 1, shape: outer }, { sign: -1, shape: inner }], hole: false },
-    ]);
-    if (built.section) expect([built.section.area, built.section.I, built.section.centroidY].every(Number.isFinite) && built.section.area > 0).toBe(true);
-    else expect(built.problems.length).toBeGreaterThan(0);
+    const cases = [
+      buildSection([
+        { part: plate(0.002, 0.002).part!, hole: false },
+        { part: [{ sign: 1, shape: outer }, { sign: -1, shape: inner }], hole: false },
+      ]),
+      buildSection([{ part: [{ sign: 1, shape: { kind: 'circle', cx: 0, cy: 8.697439607311234e76, r: 8.697439607311234e76 } }], hole: false }]),
+    ];
+    for (const built of cases) {
+      if (built.section) expect([built.section.area, built.section.I, built.section.Iy, built.section.centroidY].every(Number.isFinite) && built.section.area > 0).toBe(true);
+      else expect(built.problems.length).toBeGreaterThan(0);
+    }
   });
+
 });
 
 describe('waiting for the beam solver (src/core/beam, owner editing)', () => {
@@ -100,14 +107,19 @@ describe('waiting for the beam solver (src/core/beam, owner editing)', () => {
     expect(evaluateNote(text).diagnostics).toEqual([]);
   });
 
+  it.fails('BUG beam-support-near-end (API): three pins at 0.5 m, 1/3 m and 1 µm on a 1 m span under a tiny couple at the end', () => {
+    const solved = solveBeam({ span: 1, supports: [{ kind: 'pin', x: 0.5 }, { kind: 'pin', x: 1 / 3 }, { kind: 'pin', x: 0.000001 }], loads: [{ kind: 'moment', M: 8.241458349128392e-246, x: 0 }] });
+    expect(solved.problems).toEqual([]);
+  });
+
   it.fails('BUG beam-message-overflow: a support at 1.7976931348623157e308 m is reported as "at Infinity m"', () => {
     const text = note('beam B: 6 m', '  pin at 1.7976931348623157e308 m', '  roller at 6 m', '  udl 1 kN/m');
     expect(checkNote(text, evaluateNote(text), { includeKnownBugs: true })).toEqual([]);
   });
 });
 
-describe('waiting for the renderer (src/render, owner editing)', () => {
-  it.fails('BUG render-prototype-symbol: a combination named constructor or valueOf is typeset as "function Object() { [native code] }" (MEMBER_SYMBOL lookup reads Object.prototype)', () => {
+describe('renderer (fixed by its owner)', () => {
+  it('render-prototype-symbol: a combination named constructor or valueOf is typeset as its name, not "function Object() { [native code] }"', () => {
     for (const src of ['shear(B.constructor, 0.5 m)', 'B.valueOf']) {
       const e = new TokenCursor(tokenize(src, 0, 0), 0).expression();
       expect(exprLatex(e, {}), src).not.toContain('native code');

@@ -6,7 +6,7 @@
  * comes back without a problem is finite.
  */
 import fc from 'fast-check';
-import { describe, expect, it } from 'vitest';
+import { afterAll, describe, expect, it } from 'vitest';
 import { angle, box, buildSection, channel, circle, isection, type Part, plate, polygon, type Section, type SectionInput, tee, translate, tube } from '../../src/core/section';
 import { fuzzParameters, testTimeout } from './config';
 import { isInternalFault } from './invariants';
@@ -20,8 +20,7 @@ const length = fc.oneof(
 const coordinate = fc.oneof(
   { weight: 8, arbitrary: fc.double({ min: -1, max: 1, noNaN: true }) },
   { weight: 2, arbitrary: fc.integer({ min: -20, max: 20 }).map((i) => i * 0.01) },
-  // Parts 1e300 m apart give NaN properties: pinned as section-nan-properties in regressions.test.ts.
-  { weight: 1, arbitrary: fc.constantFrom(Number.NaN, Infinity, -Infinity, 1e6, -1e6, 5e-324) },
+    { weight: 1, arbitrary: fc.constantFrom(Number.NaN, Infinity, 1e300, -1e300, 1e6, 5e-324) },
 );
 
 const shape: fc.Arbitrary<{ part?: Part; problems: unknown[] }> = fc.oneof(
@@ -114,6 +113,9 @@ const shearForce = fc.oneof(
   { weight: 1, arbitrary: fc.constantFrom(0, -0, 1, Number.NaN, Infinity, -Infinity, 1e12, -1e12, 5e-324) },
 );
 
+let knownNonFinite = 0;
+afterAll(() => console.log(`section fuzz: ${knownNonFinite} layouts hit the pinned section-non-finite-properties bug`));
+
 describe('section engine', () => {
   it('shape constructors refuse bad numbers with problems and never throw', () => {
     fc.assert(
@@ -137,6 +139,12 @@ describe('section engine', () => {
         for (const p of built.problems) expect(typeof p.message === 'string' && p.message.length > 0 && !/NaN|undefined|\[object/.test(p.message), p.message).toBe(true);
         if (!built.section) {
           expect(built.problems.some((p) => p.severity === 'error')).toBe(true);
+          return;
+        }
+        const s = built.section;
+        if (![s.area, s.I, s.Iy, s.Ixy, s.centroidX, s.centroidY].every(Number.isFinite)) {
+          // Pinned as section-non-finite-properties in regressions.test.ts; the note level refuses such a section.
+          knownNonFinite++;
           return;
         }
         expect(readAll(built.section, V, picks), JSON.stringify(inputs.map((i) => ({ hole: i.hole, part: i.part.map((p) => ({ sign: p.sign, shape: p.shape.kind === 'circle' ? p.shape : { xs: [...p.shape.xs], ys: [...p.shape.ys] } })) })))).toEqual([]);
