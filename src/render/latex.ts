@@ -169,11 +169,13 @@ function precedence(e: Expr): number {
 
 /** How a sub-expression is shown: symbolically, or with the values of names, members and calls. */
 export interface LatexMode {
-  substitute: boolean;
+  /** Put traced values in place of names, members and calls (default: show the expression as written). */
+  substitute?: boolean;
   trace?: Map<Expr, Value>;
   /** Whether a bare name stands for a unit (`kN/mm` parses as 0.55 kN divided by the unit mm). */
   isUnit?: (name: string) => boolean;
-  system: UnitSystem;
+  /** Unit system of substituted values (default SI). */
+  system?: UnitSystem;
   sig?: number;
 }
 
@@ -188,7 +190,7 @@ function substituted(e: Expr, mode: LatexMode): { latex: string; negative: boole
   if (e.kind === 'name' && mode.isUnit?.(e.name)) return undefined;
   const v = mode.trace.get(e);
   if (!v || v.kind !== 'quantity') return undefined;
-  const latex = quantityLatex(v, mode.system, mode.sig);
+  const latex = quantityLatex(v, mode.system ?? 'SI', mode.sig);
   return { latex, negative: v.si < 0, withUnit: latex.includes('\\mathrm') || latex.includes('\\times') };
 }
 
