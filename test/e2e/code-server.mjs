@@ -62,13 +62,13 @@ export function ensureCodeServer(root, log = (s) => process.stderr.write(s + '\n
     log(`installing Node ${NODE24_VERSION} from npm into ${p.node24Dir} (one time, ~1 min)…`);
     mkdirSync(p.node24Dir, { recursive: true });
     writeFileSync(join(p.node24Dir, 'package.json'), JSON.stringify({ name: 'tauline-e2e-node24', private: true }));
-    run('npm', ['install', '--no-audit', '--no-fund', '--save-exact', `node@${NODE24_VERSION}`], { cwd: p.node24Dir }, log);
+    run('npm', ['install', '--no-audit', '--no-fund', '--save-exact', `node@${NODE24_VERSION}`], { cwd: p.node24Dir, env: outsideNpmEnv() }, log);
   }
   if (!existsSync(p.entry)) {
     log(`installing code-server ${CODE_SERVER_VERSION} into ${p.csDir} (one time, ~5 min; "prebuild-install" warnings are harmless)…`);
     mkdirSync(p.csDir, { recursive: true });
     writeFileSync(join(p.csDir, 'package.json'), JSON.stringify({ name: 'tauline-e2e-code-server', private: true }));
-    const env = { ...process.env, PATH: `${p.nodeBin}:${process.env.PATH}`, npm_config_nodedir: p.nodeHeaders };
+    const env = { ...outsideNpmEnv(), PATH: `${p.nodeBin}:${process.env.PATH}`, npm_config_nodedir: p.nodeHeaders };
     try {
       // npm's own script runs on whichever node is first on PATH: Node 24 here, as native modules need.
       run('npm', ['install', '--no-audit', '--no-fund', '--save-exact', `code-server@${CODE_SERVER_VERSION}`], { cwd: p.csDir, env }, log);
@@ -78,6 +78,15 @@ export function ensureCodeServer(root, log = (s) => process.stderr.write(s + '\n
     }
   }
   return p;
+}
+
+/**
+ * The environment without what a parent `npm test` puts in it. npm reads npm_config_* variables as
+ * its own settings, so a child npm would inherit the parent's user agent ("node/v20"), which
+ * code-server's install script checks, and the parent's nodedir.
+ */
+function outsideNpmEnv() {
+  return Object.fromEntries(Object.entries(process.env).filter(([k]) => !/^npm_/i.test(k) && k !== 'NODE' && k !== 'INIT_CWD'));
 }
 
 /** code-server's kerberos module compiles against the MIT Kerberos headers (Debian's libkrb5-dev). */
