@@ -213,7 +213,8 @@ export const EXPORT_CSP = "default-src 'none'; img-src data:; style-src 'unsafe-
 
 /** The report panel's CSP: our stylesheets and fonts from the extension, one script by nonce, nothing remote. */
 export function webviewCsp(cspSource: string, nonce: string): string {
-  const source = cspSource.replace(/[^A-Za-z0-9:/._*\- -]/g, '');
+  // cspSource comes from VS Code ("'self' https://*.vscode-cdn.net", "https://file+.vscode-resource…"): keep it whole, minus anything that could end the directive.
+  const source = cspSource.replace(/[;,\r\n]/g, ' ');
   const n = nonce.replace(/[^A-Za-z0-9]/g, '');
   return `default-src 'none'; img-src ${source} data:; style-src ${source} 'unsafe-inline'; font-src ${source}; script-src 'nonce-${n}'; base-uri 'none'; form-action 'none'`;
 }

@@ -5,7 +5,7 @@
  */
 import MarkdownIt from 'markdown-it';
 import { describe, expect, it } from 'vitest';
-import { buildPage, EXPORT_CSP, renderNote } from '../../src/render/page';
+import { buildPage, EXPORT_CSP, renderNote, webviewCsp } from '../../src/render/page';
 import { shearPlugin } from '../../src/render/plugin';
 import { HOSTILE_NOTES } from './xss-corpus';
 
@@ -41,4 +41,21 @@ describe('hostile notes, as markup', () => {
       });
     }
   }
+});
+
+describe('content security policies', () => {
+  it('the report panel allows our nonce script and the extension\'s files, nothing remote', () => {
+    // VS Code's cspSource as a desktop build and a browser build give it.
+    const source = "'self' https://*.vscode-cdn.net https://file+.vscode-resource.vscode-cdn.net";
+    const csp = webviewCsp(source, 'abcDEF0123456789abcDEF0123456789');
+    expect(csp).toBe(
+      `default-src 'none'; img-src ${source} data:; style-src ${source} 'unsafe-inline'; font-src ${source}; script-src 'nonce-abcDEF0123456789abcDEF0123456789'; base-uri 'none'; form-action 'none'`,
+    );
+    expect(webviewCsp("x; script-src *", 'n')).not.toMatch(/;\s*script-src \*/);
+  });
+
+  it('an exported sheet runs no script and fetches nothing', () => {
+    expect(EXPORT_CSP).toContain("default-src 'none'");
+    expect(EXPORT_CSP).not.toMatch(/script-src|https?:/);
+  });
 });
