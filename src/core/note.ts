@@ -11,7 +11,7 @@ import { formatNumber } from './format';
 import { evaluateBeamStatement } from './beam-statement';
 import { evaluateSectionStatement } from './section-statement';
 import { type CompareOp, parseBlock, type Statement } from './statements';
-import { DIM, describeDimension, isDimensionless, lookupUnit, preferredUnit, sameDimension, siUnitText, type UnitSystem, unitSystemOf } from './units';
+import { DIM, describeDimension, isDimensionless, lookupUnit, preferredUnit, sameDimension, siUnitText, type UnitSystem } from './units';
 import type { Quantity, Value } from './values';
 
 export interface NoteOptions {
@@ -97,10 +97,10 @@ export function evaluateNote(text: string, options: NoteOptions = {}, cache?: No
   }
   let reused = 0;
   for (const block of blocks) {
-    const candidate = (priorBySource.get(block.source) ?? []).find((r) => sameLayout(r.block, block) && readsUnchanged(r, scope));
+    const candidate = (priorBySource.get(block.source) ?? []).find((r) => sameShape(r.block, block) && readsUnchanged(r, scope));
     let result: BlockResult;
     if (candidate) {
-      result = candidate;
+      result = candidate.block.fenceLine === block.fenceLine && candidate.block.index === block.index ? candidate : relocate(candidate, block);
       reused++;
     } else {
       result = evaluateBlock(block, scope, { system, sig: options.significantFigures, now, budget });
@@ -115,35 +115,109 @@ export function evaluateNote(text: string, options: NoteOptions = {}, cache?: No
   return { blocks: results, unitSystem: system, diagnostics: results.flatMap((r) => r.diagnostics), reused };
 }
 
-function sameLayout(a: Block, b: Block): boolean {
-  // The cached result carries its Block: title, closing fence and end line must match too, or a stale one leaks out.
-  if (a.fenceLine !== b.fenceLine || a.lines.length !== b.lines.length || a.index !== b.index || a.title !== b.title || a.closed !== b.closed || a.endLine !== b.endLine) return false;
+/** Same text laid out the same way; the block may have moved up or down the note. */
+function sameShape(a: Block, b: Block): boolean {
+  // The cached result carries its Block: title, closing fence and length must match too, or a stale one leaks out.
+  if (a.lines.length !== b.lines.length || a.title !== b.title || a.closed !== b.closed || a.endLine - a.fenceLine !== b.endLine - b.fenceLine) return false;
   for (let i = 0; i < a.lines.length; i++) if (a.lines[i]!.column !== b.lines[i]!.column) return false;
   return true;
 }
 
+/** A block's results depend only on the values it read, so compare values, not where they were defined. */
 function readsUnchanged(r: BlockResult, scope: Map<string, Binding>): boolean {
   // Misses are recorded too (as undefined), so a name defined later upstream invalidates the block.
-  for (const [name, b] of r.reads) if (scope.get(name) !== b) return false;
+  for (const [name, b] of r.reads) {
+    const now = scope.get(name);
+    if (now === undefined ? b !== undefined : b === undefined || now.value !== b.value) return false;
+  }
   return true;
 }
 
-function chooseSystem(blocks: Block[], options: NoteOptions): UnitSystem {
-  const names: string[] = [];
-  for (const b of blocks) {
-    for (const l of b.lines) {
-      const t = l.text;
-      if (t.includes('units')) {
-        const m = /^\s*units\s+(SI|US)\s*(#.*)?$/i.exec(t);
-        if (m) return m[1]!.toUpperCase() as UnitSystem;
-      }
-      const hash = t.indexOf('#');
-      const code = hash >= 0 ? t.slice(0, hash) : t;
-      for (const m of code.matchAll(/[0-9)]\s*([A-Za-z]+)/g)) names.push(m[1]!);
+/**
+ * A cached result moved to where its block now sits: lines shifted, values kept (the same objects,
+ * so blocks that read them stay cached too). Adding a line above a block costs no re-evaluation.
+ */
+function relocate(r: BlockResult, block: Block): BlockResult {
+  const delta = block.fenceLine - r.block.fenceLine;
+  const moved = new Map<Statement, Statement>();
+  const shiftStatement = (st: Statement): Statement => {
+    let out: Statement;
+    if (st.kind === 'section') out = { ...st, line: st.line + delta, parts: st.parts.map((p) => ({ ...p, line: p.line + delta })) };
+    else if (st.kind === 'beam') out = { ...st, line: st.line + delta, items: st.items.map((i) => ({ ...i, line: i.line + delta })) };
+    else out = { ...st, line: st.line + delta };
+    moved.set(st, out);
+    return out;
+  };
+  const statements = r.statements.map(shiftStatement);
+  const checks: CheckResult[] = [];
+  const results = r.results.map((res) => {
+    const out: StatementResult = { ...res, statement: moved.get(res.statement) ?? shiftStatement(res.statement) };
+    if (res.check) {
+      out.check = { ...res.check, line: res.check.line + delta };
+      checks.push(out.check);
     }
+    return out;
+  });
+  const defines = new Map<string, Binding>();
+  for (const [name, b] of r.defines) defines.set(name, { ...b, line: b.line + delta, blockIndex: block.index });
+  return {
+    block,
+    statements,
+    results,
+    defines,
+    reads: r.reads,
+    checks,
+    diagnostics: r.diagnostics.map((d) => ({ ...d, line: d.line + delta })),
+    unitSystem: r.unitSystem,
+  };
+}
+
+interface SystemVotes {
+  explicit?: UnitSystem;
+  si: number;
+  us: number;
+}
+
+/** Unit-system votes per block text, kept across evaluations so a keystroke rescans one block. */
+const votesBySource = new Map<string, SystemVotes>();
+
+function votesOf(b: Block): SystemVotes {
+  const known = votesBySource.get(b.source);
+  if (known) return known;
+  const names: string[] = [];
+  let explicit: UnitSystem | undefined;
+  for (const l of b.lines) {
+    const t = l.text;
+    if (t.includes('units')) {
+      const m = /^\s*units\s+(SI|US)\s*(#.*)?$/i.exec(t);
+      if (m && !explicit) explicit = m[1]!.toUpperCase() as UnitSystem;
+    }
+    const hash = t.indexOf('#');
+    const code = hash >= 0 ? t.slice(0, hash) : t;
+    for (const m of code.matchAll(/[0-9)]\s*([A-Za-z]+)/g)) names.push(m[1]!);
+  }
+  const votes: SystemVotes = { explicit, si: 0, us: 0 };
+  for (const n of names) {
+    const def = lookupUnit(n);
+    if (def?.system === 'SI') votes.si++;
+    else if (def?.system === 'US') votes.us++;
+  }
+  if (votesBySource.size > 20000) votesBySource.clear();
+  votesBySource.set(b.source, votes);
+  return votes;
+}
+
+function chooseSystem(blocks: Block[], options: NoteOptions): UnitSystem {
+  let si = 0;
+  let us = 0;
+  for (const b of blocks) {
+    const v = votesOf(b);
+    if (v.explicit) return v.explicit;
+    si += v.si;
+    us += v.us;
   }
   if (options.unitSystem && options.unitSystem !== 'auto') return options.unitSystem;
-  return unitSystemOf(names);
+  return us > si ? 'US' : 'SI';
 }
 
 interface BlockSettings {

@@ -156,3 +156,17 @@ describe('incremental evaluation', () => {
     expect(evaluateNote(t2, {}, cache).diagnostics).toHaveLength(0);
   });
 });
+
+describe('incremental evaluation when blocks move', () => {
+  it('keeps results of blocks that only moved down, with their lines shifted', () => {
+    const cache = new NoteCache();
+    const body = '```shear\na = 1 m\n```\n\n```shear\nb = a * 2\ncheck b <= 1 m\nc = oops\n```\n';
+    const first = evaluateNote(body, {}, cache);
+    const second = evaluateNote('Intro line\n\n' + body, {}, cache);
+    expect(second.reused).toBe(2);
+    const again = evaluateNote('Intro line\n\n' + body);
+    const strip = (r: typeof first) => r.blocks.map((b) => ({ d: b.diagnostics, c: b.checks.map((c) => [c.line, c.pass]), n: [...b.defines].map(([k, v]) => [k, v.line]), s: b.results.map((x) => [x.statement.line, x.text]) }));
+    expect(strip(second)).toEqual(strip(again));
+    expect(second.blocks[1]!.checks[0]!.line).toBe(first.blocks[1]!.checks[0]!.line + 2);
+  });
+});
