@@ -29,12 +29,29 @@ export interface Block {
   lines: BlockLine[];
   /** The block's content as written, for caching. */
   source: string;
+  /**
+   * Set when the fence sits in Markdown nested deeper than MAX_NESTING levels (lists, quotes):
+   * markdown-it stops reading there, so the block's content is unknown and it must be reported,
+   * never silently left out of a check.
+   */
+  nestedTooDeep?: true;
 }
+
+/**
+ * Container nesting markdown-it reads (its default preset's limit, as in VS Code's preview). Deeper
+ * nesting is where its recursive parser would run out of stack (about 3,000 levels of lists), and
+ * reading it costs time quadratic in the depth.
+ */
+export const MAX_NESTING = 100;
 
 // Only block structure matters here: inline parsing of the prose is switched off, which makes
 // finding the blocks several times cheaper than rendering the note.
-const parser = new MarkdownIt('commonmark');
+const parser = new MarkdownIt('commonmark', { maxNesting: MAX_NESTING });
 parser.core.ruler.disable(['inline', 'text_join']);
+
+/** A line that opens a `shear` fence, behind any quote or list markers. */
+const FENCE_OPENER = /^(?:[ \t]*(?:>|[-+*]|\d{1,9}[.)])(?=[ \t]|$))*[ \t]*(?:`{3,}|~{3,})[ \t]*shear(?:[ \t]|$)/i;
+const LEAF_TOKENS = new Set(['fence', 'code_block', 'html_block', 'paragraph_open', 'heading_open', 'hr']);
 
 /** Splits text into lines the way markdown-it counts them (\n, \r\n and lone \r all end a line). */
 export function splitLines(text: string): string[] {
@@ -72,5 +89,27 @@ export function extractBlocks(text: string): Block[] {
       source: content,
     });
   }
-  return blocks;
+  return withHiddenFences(blocks, tokens, mdLines);
+}
+
+/**
+ * markdown-it stops reading a container nested past maxNesting and skips the rest of it, which can be
+ * the rest of the file. A `shear` fence in lines no leaf token covers was skipped that way: it comes
+ * back as a block with no content, marked, so the parser reports it on its fence line.
+ */
+function withHiddenFences(blocks: Block[], tokens: ReturnType<typeof parser.parse>, mdLines: string[]): Block[] {
+  const covered = new Uint8Array(mdLines.length);
+  for (const t of tokens) {
+    if (!t.map || !LEAF_TOKENS.has(t.type)) continue;
+    covered.fill(1, t.map[0], Math.min(t.map[1], mdLines.length));
+  }
+  let hidden: Block[] | undefined;
+  for (let i = 0; i < mdLines.length; i++) {
+    if (covered[i] || !FENCE_OPENER.test(mdLines[i]!)) continue;
+    const title = /shear(?:[ \t]+(.*))?$/i.exec(mdLines[i]!)?.[1]?.trim() ?? '';
+    // The source can never equal a readable block's content, so the cache never mistakes one for the other.
+    (hidden ??= []).push({ index: 0, fenceLine: i, endLine: i, closed: false, title, lines: [], source: `\u0000${mdLines[i]}`, nestedTooDeep: true });
+  }
+  if (!hidden) return blocks;
+  return [...blocks, ...hidden].sort((a, b) => a.fenceLine - b.fenceLine).map((b, index) => ({ ...b, index }));
 }

@@ -12,7 +12,7 @@
  */
 import type { Diagnostic } from './diagnostic';
 import { NoteError } from './diagnostic';
-import type { Block } from './blocks';
+import { type Block, MAX_NESTING } from './blocks';
 import { type Expr, type Token, TokenCursor, tokenize, type UnitTerm } from './expression';
 
 export type CompareOp = '<=' | '<' | '>=' | '>';
@@ -88,6 +88,10 @@ export function parseBlock(block: Block): ParsedBlock {
   const statements: Statement[] = [];
   const diagnostics: Diagnostic[] = [];
   const lines = block.lines;
+  if (block.nestedTooDeep) {
+    diagnostics.push({ code: 'block.too-deep', severity: 'error', message: `This block sits inside lists or quotes nested more than ${MAX_NESTING} levels deep, where the Markdown reader stops; it was not read or evaluated. Move it out of the nesting.`, line: block.fenceLine, column: 0, endColumn: 1 });
+    return { statements, diagnostics };
+  }
   if (lines.length > MAX_BLOCK_LINES) {
     const first = lines[0]!;
     diagnostics.push({ code: 'block.too-long', severity: 'error', message: `This block has ${lines.length} lines; a block may hold at most ${MAX_BLOCK_LINES}. Split it into several blocks.`, line: first.line, column: first.column, endColumn: first.column + first.text.length });

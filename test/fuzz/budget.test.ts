@@ -56,7 +56,7 @@ describe('block time budget', () => {
     console.log(`budget 150 ms: ${first!.results.length} of ${first!.statements.length} statements evaluated in ${elapsed.toFixed(0)} ms, then the next block`);
     expect(cut).toBeDefined();
     expect(first!.results.length).toBeLessThan(first!.statements.length);
-    expect(first!.results.length).toBeGreaterThan(1);
+    expect(first!.results.length).toBeGreaterThanOrEqual(1);
     expect(second!.diagnostics).toEqual([]);
     expect(second!.checks[0]!.pass).toBe(true);
   }, testTimeout());

@@ -64,7 +64,19 @@ describe('fixed', () => {
     expect(unclosed.blocks[0]!.block.closed).toBe(false);
     expect(unclosed.reused).toBe(0);
   });
+  it('a block after Markdown nested past the reader\'s limit is an error, not silently left out of the checks (was: tauline check passed a failing check)', () => {
+    const lists = (levels: number) => `${Array.from({ length: levels }, (_v, i) => `${' '.repeat(i * 2)}- item`).join('\n')}\n\n\`\`\`shear Hidden\ncheck 2 m <= 1 m\n\`\`\`\n`;
+    // 19 nested items were already past the old limit of 20 (a list and its item count two levels).
+    for (const levels of [19, 49]) {
+      const r = evaluateNote(lists(levels));
+      expect(r.blocks[0]!.checks.map((c) => c.pass), `${levels}`).toEqual([false]);
+    }
+    const deep = evaluateNote(lists(200));
+    expect(deep.diagnostics.map((d) => [d.line, d.code, d.severity])).toEqual([[201, 'block.too-deep', 'error']]);
+    expect(noteToJson('n.md', deep).blocks[0]!.title).toBe('Hidden');
+  });
 });
+
 
 
 describe('waiting for the section engine (src/core/section, owner editing)', () => {
