@@ -4,6 +4,7 @@
  * bounded. A cache lets an editor re-evaluate only the blocks an edit can change.
  */
 import { type Block, extractBlocks } from './blocks';
+import { extractBlocksAfterEdit } from './blocks-edit';
 import { type Diagnostic, NoteError } from './diagnostic';
 import type { Expr } from './expression';
 import { type Binding, type EvalContext, evaluate, UNAVAILABLE } from './evaluate';
@@ -76,12 +77,15 @@ export interface NoteResult {
 export class NoteCache {
   previous: BlockResult[] = [];
   key = '';
+  /** The text and blocks of the previous evaluation, so an edit inside one block skips the Markdown parse. */
+  text?: string;
+  blocks?: Block[];
 }
 
 const DEFAULT_BUDGET_MS = 3000;
 
 export function evaluateNote(text: string, options: NoteOptions = {}, cache?: NoteCache): NoteResult {
-  const blocks = extractBlocks(text);
+  const blocks = (cache?.text !== undefined && cache.blocks && extractBlocksAfterEdit(cache.text, cache.blocks, text)) || extractBlocks(text);
   const system = chooseSystem(blocks, options);
   const now = options.now ?? Date.now;
   const budget = options.blockBudgetMs ?? DEFAULT_BUDGET_MS;
@@ -111,6 +115,8 @@ export function evaluateNote(text: string, options: NoteOptions = {}, cache?: No
   if (cache) {
     cache.previous = results;
     cache.key = optionsKey;
+    cache.text = text;
+    cache.blocks = blocks;
   }
   return { blocks: results, unitSystem: system, diagnostics: results.flatMap((r) => r.diagnostics), reused };
 }
