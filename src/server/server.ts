@@ -118,7 +118,7 @@ export function startServer(connection: Connection, deps: ServerDeps = {}): Serv
     await yieldToQueue();
     const current = documents.get(uri);
     if (!current || current.version !== version) return;
-    const diagnostics = [...noteDiagnostics(a), ...safely(() => stampDiagnostics(a, settings.significantFigures), [])];
+    const diagnostics = [...noteDiagnostics(a), ...safely(() => stampDiagnostics(a, settings), [])];
     lastPublishMs.set(uri, now() - started);
     await connection.sendDiagnostics({ uri, version, diagnostics });
     void connection.sendNotification(NOTE_SUMMARY_NOTIFICATION, noteSummary(a));
@@ -198,9 +198,9 @@ export function startServer(connection: Connection, deps: ServerDeps = {}): Serv
   connection.onDocumentHighlight((p, token) => handle(token, p.textDocument.uri, [], (a) => highlights(a, p.position)));
   connection.onDocumentSymbol((p, token) => handle(token, p.textDocument.uri, [], (a) => documentSymbols(a, settings)));
 
-  connection.onCodeAction((p, token) => handle(token, p.textDocument.uri, [], (a) => stampQuickFixes(a, p.context.diagnostics, settings.significantFigures)));
+  connection.onCodeAction((p, token) => handle(token, p.textDocument.uri, [], (a) => stampQuickFixes(a, p.context.diagnostics, settings)));
   connection.onRequest(STAMP_EDITS_REQUEST, (p: { uri: string }, token) =>
-    handle(token, p?.uri, { edits: [], problems: ['The note is not open.'], version: -1 }, (a) => stampEdits(a, settings.significantFigures)),
+    handle(token, p?.uri, { edits: [], problems: ['The note is not open.'], version: -1 }, (a) => stampEdits(a, settings)),
   );
 
   documents.listen(connection);

@@ -55,7 +55,7 @@ describe('editor features on arbitrary notes', () => {
         const settings = { ...DEFAULT_SETTINGS, themeKind, evaluate };
         const a = new NoteStore().analyze('file:///p.md', 1, text, settings);
         const lines = text.split('\n');
-        for (const d of [...noteDiagnostics(a), ...stampDiagnostics(a, 3)]) {
+        for (const d of [...noteDiagnostics(a), ...stampDiagnostics(a, settings)]) {
           expect(typeof d.code).toBe('string');
           expect(d.range.start.line).toBeLessThan(lines.length);
         }

@@ -5,8 +5,22 @@
  * `tauline/stampEdits` and applies them as one WorkspaceEdit, so evaluation stays in the server).
  */
 import { type CodeAction, CodeActionKind, type Diagnostic as LspDiagnostic, DiagnosticSeverity, type TextEdit } from 'vscode-languageserver';
+import { evaluateNote, type NoteResult } from '../../core/note';
 import { findStaleStamps, readStamps, stampText, type StampEdit } from '../../core/stamp';
 import type { NoteAnalysis } from '../analysis';
+import type { ServerSettings as Settings } from '../settings';
+
+/**
+ * Stamps are read by reviewers and by `tauline check --frozen` in CI, which knows nothing of this
+ * editor's settings: they are always written and compared with the defaults (the note's own unit
+ * system, 3 significant figures), whatever the user chose for inline results.
+ */
+function canonicalNote(a: NoteAnalysis, settings: Pick<Settings, 'unitSystem' | 'significantFigures'>): NoteResult | undefined {
+  if (!a.note) return undefined;
+  if (settings.unitSystem === 'auto' && settings.significantFigures === 3) return a.note;
+  return evaluateNote(a.text);
+}
+type StampSettings = Pick<Settings, 'unitSystem' | 'significantFigures'>;
 import { SOURCE } from './diagnostics';
 
 export const STAMP_EDITS_REQUEST = 'tauline/stampEdits';
@@ -16,12 +30,13 @@ function lineRange(a: NoteAnalysis, line: number) {
   return { start: { line, character: 0 }, end: { line, character: (a.lines[line] ?? '').length } };
 }
 
-export function stampDiagnostics(a: NoteAnalysis, significantFigures: number): LspDiagnostic[] {
+export function stampDiagnostics(a: NoteAnalysis, settings: StampSettings): LspDiagnostic[] {
   // Every stamp and every damaged marker contains this word; a note without it has nothing stale
   // (a missing stamp counts only beside another stamp), so most keystrokes skip the scan.
   if (!a.note || !a.text.includes('tauline-results')) return [];
   const out: LspDiagnostic[] = [];
-  for (const s of findStaleStamps(a.text, a.note, { significantFigures })) {
+  const note = canonicalNote(a, settings)!;
+  for (const s of findStaleStamps(a.text, note)) {
     const line = s.stampLine ?? s.fenceLine;
     const names = s.changes.slice(0, 4).map((c) => `${c.name}: ${c.oldText ?? '(new)'} → ${c.newText ?? '(gone)'}`);
     const more = s.changes.length > 4 ? ` and ${s.changes.length - 4} more` : '';
@@ -68,19 +83,20 @@ function toTextEdits(a: NoteAnalysis, edits: StampEdit[]): TextEdit[] {
 }
 
 /** Edits that stamp every block (or the blocks given); problems come back for the user to see. */
-export function stampEdits(a: NoteAnalysis, significantFigures: number, blocks?: number[]): { edits: TextEdit[]; problems: string[]; version: number } {
-  if (!a.note) return { edits: [], problems: ['The note is not evaluated (untrusted workspace), so it cannot be stamped.'], version: a.version };
-  const out = stampText(a.text, a.note, { significantFigures, blocks });
+export function stampEdits(a: NoteAnalysis, settings: StampSettings, blocks?: number[]): { edits: TextEdit[]; problems: string[]; version: number } {
+  const note = canonicalNote(a, settings);
+  if (!note) return { edits: [], problems: ['The note is not evaluated (untrusted workspace), so it cannot be stamped.'], version: a.version };
+  const out = stampText(a.text, note, { blocks });
   return { edits: toTextEdits(a, out.edits), problems: out.problems.map((p) => `line ${p.line + 1}: ${p.message}`), version: a.version };
 }
 
-export function stampQuickFixes(a: NoteAnalysis, diagnostics: LspDiagnostic[], significantFigures: number): CodeAction[] {
+export function stampQuickFixes(a: NoteAnalysis, diagnostics: LspDiagnostic[], settings: StampSettings): CodeAction[] {
   const actions: CodeAction[] = [];
   for (const d of diagnostics) {
     if (d.code !== STALE_STAMP_CODE || d.source !== SOURCE) continue;
     const blockIndex = (d.data as { blockIndex?: unknown } | undefined)?.blockIndex;
     if (typeof blockIndex !== 'number') continue;
-    const { edits } = stampEdits(a, significantFigures, [blockIndex]);
+    const { edits } = stampEdits(a, settings, [blockIndex]);
     if (!edits.length) continue;
     actions.push({
       title: 'Update this block\'s results stamp',
