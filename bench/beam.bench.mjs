@@ -110,3 +110,32 @@ console.log(`  20 spans, 200 loads, 3 groups, 3 combinations (${pieces} pieces p
 console.log(`    solve                                      ${fmt(tBig)} ms  = ${fmt(tBig / tSimple)} × simple solve, ${fmt(tBig / tLoop)} × loop`);
 console.log(`    envelope sample(400)                       ${fmt(tSample)} ms  = ${fmt(tSample / tSimple)} × simple solve`);
 console.log(`  100 typical beams (one note)                 ${fmt(tNote)} ms  = ${fmt(tNote / tSimple)} × simple solve, ${fmt(tNote / 100 / tSimple)} × per beam`);
+
+// Against the core's evaluation of the generated 200-block note (the yardstick of the core's bench),
+// with the beams written as notes too: a note of 100 beams through the whole evaluator.
+{
+  const { loadTs, time: timeMs } = await import('./load.mjs');
+  const { generatedNote } = await import('./generate.mjs');
+  const core = await loadTs(fileURLToPath(new URL('../src/core/index.ts', import.meta.url)));
+  const coreMs = timeMs(() => core.evaluateNote(generatedNote(200)), 5);
+  const beamsNote = ['```shear Beams']
+    .concat(
+      ...Array.from({ length: 100 }, (_, i) => [
+        `beam B${i}: ${(6 + (i % 5)).toFixed(1)} m`,
+        '  pin at 0 m',
+        `  roller at ${(3 + (i % 3)).toFixed(1)} m`,
+        `  roller at ${(6 + (i % 5)).toFixed(1)} m`,
+        `  dead: udl ${(2 + (i % 7)).toFixed(1)} kN/m`,
+        `  live: point ${(10 + i).toFixed(0)} kN at 1.5 m`,
+        '  combine ULS = 1.2 dead + 1.6 live',
+        `V${i} = B${i}.Vmax`,
+      ]),
+    )
+    .concat(['```'])
+    .join('\n');
+  const noteMs = timeMs(() => core.evaluateNote(beamsNote), 5);
+  const bigMs = tBig;
+  console.log(`  against the core's 200-block note evaluation (${fmt(coreMs)} ms):`);
+  console.log(`    20-span, 200-load beam solve               ratio ${fmt(bigMs / coreMs)}`);
+  console.log(`    note with 100 continuous beams, evaluated  ${fmt(noteMs)} ms, ratio ${fmt(noteMs / coreMs)}`);
+}
