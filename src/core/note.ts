@@ -307,7 +307,7 @@ export function evaluateBlock(block: Block, outer: Map<string, Binding>, setting
           }
           const check = makeCheck(st, lv, rv, fmt);
           res.check = check;
-          res.text = `${check.pass ? 'OK' : 'NOT OK'}, ratio ${formatNumber(check.ratio, { significantFigures: Math.max(2, settings.sig ?? 3) })}`;
+          res.text = `${check.pass ? 'pass' : 'FAIL'}, ratio ${formatNumber(check.ratio, { significantFigures: Math.max(2, settings.sig ?? 3) })}`;
           checks.push(check);
           if (Math.sign(lv.si) !== Math.sign(rv.si) && lv.si !== 0 && rv.si !== 0) {
             diagnostics.push({ code: 'check.sign', severity: 'warning', message: 'The two sides have opposite signs, so this check says little; compare magnitudes with abs(…).', line: st.line, column: st.left.start, endColumn: st.right.end });

@@ -115,8 +115,8 @@ export function wireClient(context: vscode.ExtensionContext, client: BaseLanguag
     } else {
       const parts: string[] = [];
       if (s.checks === 0) parts.push('no checks');
-      else if (s.failed === 0) parts.push(`${s.checks} check${s.checks === 1 ? '' : 's'} OK`);
-      else parts.push(`${s.failed} of ${s.checks} NOT OK`);
+      else if (s.failed === 0) parts.push(`${s.checks} check${s.checks === 1 ? ' passes' : 's pass'}`);
+      else parts.push(`${s.failed} of ${s.checks} FAIL`);
       if (s.errors) parts.push(`${s.errors} error${s.errors === 1 ? '' : 's'}`);
       const bad = s.failed > 0 || s.errors > 0;
       item.text = `${bad ? '$(warning)' : '$(pass)'} Tauline: ${parts.join(', ')}`;

@@ -32,9 +32,9 @@ export function presenter(a: NoteAnalysis, settings: ServerSettings): Presenter 
   };
 }
 
-/** A check's utilisation as shown at a line end: "OK 0.28", "NOT OK 1.12". */
+/** A check's utilisation as shown at a line end: "pass 0.28", "FAIL 1.12". */
 export function checkBadge(c: CheckResult): string {
-  return `${c.pass ? 'OK' : 'NOT OK'} ${ratioText(c.ratio)}`;
+  return `${c.pass ? 'pass' : 'FAIL'} ${ratioText(c.ratio)}`;
 }
 
 export function ratioText(r: number): string {

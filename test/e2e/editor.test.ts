@@ -171,7 +171,7 @@ describe.skipIf(!!reason)('extension in a real VS Code (code-server + chromium)'
     await page.screenshot({ path: join(ARTIFACTS, '2-hover-section.png') });
 
     const status = await page.locator('.statusbar-item', { hasText: 'Tauline' }).first().innerText();
-    expect(status).toMatch(/checks? OK/);
+    expect(status).toMatch(/checks? pass/);
 
     // A dark theme: the picture's colours are baked in from the theme kind the extension reports.
     const lightSrc = await hover.locator('img[src^="data:image/svg+xml"]').first().getAttribute('src');
@@ -212,12 +212,12 @@ describe.skipIf(!!reason)('extension in a real VS Code (code-server + chromium)'
   it('squiggles a failing check and explains it on hover', async () => {
     await openFile('failing-check.md');
     await reveal('check t_max');
-    await page.locator('.monaco-editor .view-line', { hasText: 'NOT OK' }).first().waitFor({ timeout: 60_000 });
+    await page.locator('.monaco-editor .view-line', { hasText: 'FAIL' }).first().waitFor({ timeout: 60_000 });
     await page.locator('.monaco-editor .squiggly-warning').first().waitFor({ timeout: 30_000 });
     const keyword = page.locator('.monaco-editor .view-line', { hasText: 'check t_max' }).first().locator('span', { hasText: /^check$/ }).first();
     const hover = page.locator('.monaco-hover:visible');
     let text = '';
-    for (let attempt = 0; attempt < 20 && !/NOT OK/.test(text); attempt++) {
+    for (let attempt = 0; attempt < 20 && !/FAIL/.test(text); attempt++) {
       await page.mouse.move(5, 5);
       await page.waitForTimeout(300);
       // Measured each time: code lenses arriving late move the lines down.
@@ -230,10 +230,10 @@ describe.skipIf(!!reason)('extension in a real VS Code (code-server + chromium)'
     expect(text).toMatch(/Check fails/);
     expect(text).toMatch(/utilisation 1\.40/);
     expect(text).toMatch(/licensed engineer/);
-    expect(text).toMatch(/NOT OK/);
+    expect(text).toMatch(/FAIL/);
     await page.screenshot({ path: join(ARTIFACTS, '3-failing-check.png') });
     const status = await page.locator('.statusbar-item', { hasText: 'Tauline' }).first().innerText();
-    expect(status).toMatch(/NOT OK/);
+    expect(status).toMatch(/FAIL/);
 
     // Stamping writes the results table after each block, as one undoable edit.
     await page.mouse.move(5, 5);

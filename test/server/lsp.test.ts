@@ -129,7 +129,7 @@ describe('language server over stdio', () => {
     const byLine = new Map(hints.map((h) => [h.position.line, String(h.label)]));
     expect(byLine.get(18)).toBe('= 82.2 kN');
     expect(byLine.get(8)).toBe('= 536 mm');
-    expect(byLine.get(25)).toBe('OK 0.15');
+    expect(byLine.get(25)).toBe('pass 0.15');
     expect(hints.find((h) => h.position.line === 18)!.position.character).toBe(lineText(18).length);
   });
 
@@ -137,7 +137,7 @@ describe('language server over stdio', () => {
     const lenses = await c.request<CodeLens[]>('textDocument/codeLens', { textDocument: { uri: URI } });
     expect(lenses.map((l) => l.range.start.line)).toEqual([2, 11, 21]);
     expect(lenses.every((l) => l.command?.command === 'tauline.openReport')).toBe(true);
-    expect(lenses[2]!.command!.title).toMatch(/check OK · max utilisation 0\.15/);
+    expect(lenses[2]!.command!.title).toMatch(/check passes · max utilisation 0\.15/);
   });
 
   it('completes keywords, parts, members, names, functions and units', async () => {

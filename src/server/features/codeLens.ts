@@ -19,8 +19,8 @@ export function codeLenses(a: NoteAnalysis): CodeLens[] {
       const failed = checks.filter((c) => !c.pass).length;
       const parts: string[] = [];
       if (checks.length === 0) parts.push('no checks');
-      else if (failed === 0) parts.push(`${checks.length === 1 ? 'check' : `all ${checks.length} checks`} OK`);
-      else parts.push(`${failed} of ${checks.length} check${checks.length === 1 ? '' : 's'} NOT OK`);
+      else if (failed === 0) parts.push(`${checks.length === 1 ? 'check passes' : `all ${checks.length} checks pass`}`);
+      else parts.push(`${failed} of ${checks.length} check${checks.length === 1 ? '' : 's'} FAIL`);
       if (checks.length) parts.push(`max utilisation ${ratioText(Math.max(...checks.map((c) => c.ratio)))}`);
       if (errors) parts.push(`${errors} error${errors === 1 ? '' : 's'}`);
       title = parts.join(' · ');

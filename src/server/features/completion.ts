@@ -18,7 +18,7 @@ const COMMON_UNITS = ['mm', 'cm', 'm', 'N', 'kN', 'MN', 'Pa', 'kPa', 'MPa', 'GPa
 const STATEMENTS: { label: string; snippet: string; doc: string }[] = [
   { label: 'section', snippet: 'section ${1:S}: ${2:title}\n  plate ${3:200 mm} x ${4:20 mm}', doc: 'A cross-section; indent its parts under it (plate, circle, tube, box, isection, tee, channel, angle, polygon, hole).' },
   { label: 'beam', snippet: 'beam ${1:B}: ${2:6 m}\n  pin at 0 m\n  roller at ${2:6 m}\n  udl ${3:10 kN/m}', doc: 'A beam; indent supports (pin, roller, fixed at X) and loads (point, udl, ramp, moment) under it.' },
-  { label: 'check', snippet: 'check ${1:demand} <= ${2:limit}', doc: 'Compares two quantities (<=, <, >=, >) and gives OK / NOT OK with the utilisation. The limit is yours to write.' },
+  { label: 'check', snippet: 'check ${1:demand} <= ${2:limit}', doc: 'Compares two quantities (<=, <, >=, >) and gives pass / FAIL with the utilisation. The limit is yours to write.' },
   { label: 'units', snippet: 'units ${1|SI,US|}', doc: 'The unit system results are shown in.' },
 ];
 

@@ -234,9 +234,9 @@ function checkHover(a: NoteAnalysis, st: Extract<Statement, { kind: 'check' }>, 
   const rows = [`check ${c.text}`];
   const values = `${c.leftText} ${st.op} ${c.rightText}`;
   if (`${left} ${st.op} ${right}` !== values) rows.push(`      ${left} ${st.op} ${right}`);
-  rows.push(`      ${values}  →  ${c.pass ? 'OK' : 'NOT OK'}, utilisation ${ratioText(c.ratio)}`);
+  rows.push(`      ${values}  →  ${c.pass ? 'pass' : 'FAIL'}, utilisation ${ratioText(c.ratio)}`);
   return [
-    `**check ${c.pass ? 'OK' : 'NOT OK'}** — utilisation ${ratioText(c.ratio)}`,
+    `**check ${c.pass ? 'passes' : 'FAILS'}** — utilisation ${ratioText(c.ratio)}`,
     markdownImage(`Utilisation ${ratioText(c.ratio)} of 1.0`, svg),
     '```text\n' + rows.join('\n') + '\n```',
     `_${CAUTION_SHORT}_`,

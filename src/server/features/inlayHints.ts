@@ -1,5 +1,5 @@
 /**
- * Each line's result at the line's end: `= 66.6 kN`; a check shows `OK 0.28` or `NOT OK 1.12`;
+ * Each line's result at the line's end: `= 66.6 kN`; a check shows `pass 0.28` or `FAIL 1.12`;
  * a section its area and I; a beam its largest shear and moment.
  */
 import { type InlayHint, InlayHintKind, type Range } from 'vscode-languageserver';

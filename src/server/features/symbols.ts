@@ -35,7 +35,7 @@ export function documentSymbols(a: NoteAnalysis, settings: ServerSettings): Docu
         case 'check':
           children.push({
             name: `check ${st.text}`,
-            detail: res?.check ? (res.check.pass ? `OK ${res.check.ratio.toFixed(2)}` : `NOT OK ${res.check.ratio.toFixed(2)}`) : undefined,
+            detail: res?.check ? (res.check.pass ? `pass ${res.check.ratio.toFixed(2)}` : `FAIL ${res.check.ratio.toFixed(2)}`) : undefined,
             kind: SymbolKind.Boolean,
             range,
             selectionRange: { start: { line: st.line, character: st.start }, end: { line: st.line, character: Math.min(st.end, lineLen) } },
