@@ -46,8 +46,10 @@ export const MAX_NESTING = 100;
 
 // Only block structure matters here: inline parsing of the prose is switched off, which makes
 // finding the blocks several times cheaper than rendering the note.
-const parser = new MarkdownIt('commonmark', { maxNesting: MAX_NESTING });
+const parser = new MarkdownIt('commonmark');
 parser.core.ruler.disable(['inline', 'text_join']);
+// markdown-it reads this option at parse time; its typings do not list it.
+(parser.options as { maxNesting?: number }).maxNesting = MAX_NESTING;
 
 /** A line that opens a `shear` fence, behind any quote or list markers. */
 const FENCE_OPENER = /^(?:[ \t]*(?:>|[-+*]|\d{1,9}[.)])(?=[ \t]|$))*[ \t]*(?:`{3,}|~{3,})[ \t]*shear(?:[ \t]|$)/i;
