@@ -306,9 +306,18 @@ export class TokenCursor {
     const t = this.peek();
     if (t.kind !== 'name' || this.stop.has(t.text) || this.isOp('(', 1) || this.isOp('.', 1)) return undefined;
     this.next();
+    const { power, end } = this.unitPower(t, true);
+    return [{ name: t.text, power, start: t.start, end }];
+  }
+
+  /**
+   * The power written after a unit name: `^2`, `^-1` or a superscript. After a number (`lenient`)
+   * a `^` not followed by a whole number is left for the expression to read.
+   */
+  private unitPower(t: Token, lenient: boolean): { power: number; end: number } {
     let power = 1;
     let end = t.end;
-    if (this.isOp('^') && (this.peek(1).kind === 'number' || (this.isOp('-', 1) && this.peek(2).kind === 'number'))) {
+    if (this.isOp('^') && (!lenient || this.peek(1).kind === 'number' || (this.isOp('-', 1) && this.peek(2).kind === 'number'))) {
       this.next();
       let sign = 1;
       if (this.isOp('-')) {
@@ -316,6 +325,7 @@ export class TokenCursor {
         sign = -1;
       }
       const n = this.next();
+      if (n.kind !== 'number') this.fail('Expected a whole-number power.', n, 'unit.power');
       power = sign * Number(n.text);
       end = n.end;
     } else {
@@ -326,7 +336,7 @@ export class TokenCursor {
       }
     }
     if (!Number.isInteger(power) || Math.abs(power) > 6) this.fail('A unit power must be a whole number from -6 to 6.', t, 'unit.power');
-    return [{ name: t.text, power, start: t.start, end }];
+    return { power, end };
   }
 
   /** The unit after `to`: names joined by * · / with integer powers, e.g. `kN/m`, `kip*ft`, `in^4`. */
@@ -340,27 +350,7 @@ export class TokenCursor {
       } else {
         if (t.kind !== 'name') this.fail(`Expected a unit, found ${describeToken(t)}.`, t, 'unit.expected');
         this.next();
-        let power = 1;
-        let end = t.end;
-        if (this.isOp('^')) {
-          this.next();
-          let s = 1;
-          if (this.isOp('-')) {
-            this.next();
-            s = -1;
-          }
-          const n = this.next();
-          if (n.kind !== 'number') this.fail('Expected a whole-number power.', n, 'unit.power');
-          power = s * Number(n.text);
-          end = n.end;
-        } else {
-          const sup = this.superscriptPower();
-          if (sup !== undefined) {
-            power = sup;
-            end = this.tokens[this.pos - 1]!.end;
-          }
-        }
-        if (!Number.isInteger(power) || Math.abs(power) > 6) this.fail('A unit power must be a whole number from -6 to 6.', t, 'unit.power');
+        const { power, end } = this.unitPower(t, false);
         terms.push({ name: t.text, power: power * sign, start: t.start, end });
       }
       if (this.isOp('*')) {

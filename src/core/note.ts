@@ -272,30 +272,15 @@ export function evaluateBlock(block: Block, outer: Map<string, Binding>, setting
           define(st.target.name, v, st.line, st.target.start, st.target.end);
           break;
         }
-        case 'section': {
-          const out = evaluateSectionStatement(st, ctx);
-          diagnostics.push(...out.diagnostics);
-          if (out.value) {
-            res.name = st.target.name;
-            res.value = out.value;
-            define(st.target.name, out.value, st.line, st.target.start, st.target.end);
-          } else {
-            res.failed = true;
-            define(st.target.name, { kind: 'unavailable', name: st.target.name }, st.line, st.target.start, st.target.end);
-          }
-          break;
-        }
+        case 'section':
         case 'beam': {
-          const out = evaluateBeamStatement(st, ctx);
+          const out = st.kind === 'section' ? evaluateSectionStatement(st, ctx) : evaluateBeamStatement(st, ctx);
           diagnostics.push(...out.diagnostics);
           if (out.value) {
             res.name = st.target.name;
             res.value = out.value;
-            define(st.target.name, out.value, st.line, st.target.start, st.target.end);
-          } else {
-            res.failed = true;
-            define(st.target.name, { kind: 'unavailable', name: st.target.name }, st.line, st.target.start, st.target.end);
-          }
+          } else res.failed = true;
+          define(st.target.name, out.value ?? { kind: 'unavailable', name: st.target.name }, st.line, st.target.start, st.target.end);
           break;
         }
         case 'check': {
