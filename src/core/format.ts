@@ -13,7 +13,9 @@ export function formatNumber(value: number, options: FormatOptions = {}): string
   const sig = clampSig(options.significantFigures);
   if (!Number.isFinite(value)) return value > 0 ? '∞' : value < 0 ? '-∞' : 'not a number';
   if (value === 0) return '0';
-  const rounded = Number(value.toPrecision(sig));
+  let rounded = Number(value.toPrecision(sig));
+  // 1.7976931348623157e308 rounds past the largest double: keep the value itself.
+  if (!Number.isFinite(rounded)) rounded = value;
   if (rounded === 0) return '0';
   const exp = Math.floor(Math.log10(Math.abs(rounded)));
   if (exp >= 6 || exp < -3) {

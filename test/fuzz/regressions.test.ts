@@ -5,6 +5,7 @@
  */
 import { describe, expect, it } from 'vitest';
 import { noteToJson } from '../../src/core/contract';
+import { formatNumber } from '../../src/core/format';
 import { evaluateNote, NoteCache } from '../../src/core/note';
 import { solveBeam } from '../../src/core/beam';
 import { buildSection, plate } from '../../src/core/section';
@@ -75,7 +76,14 @@ describe('fixed', () => {
     expect(deep.diagnostics.map((d) => [d.line, d.code, d.severity])).toEqual([[201, 'block.too-deep', 'error']]);
     expect(noteToJson('n.md', deep).blocks[0]!.title).toBe('Hidden');
   });
+  it('the largest double is formatted as a number, not "Infinity×10Infinity" (its 3-figure rounding overflows)', () => {
+    expect(formatNumber(1.7976931348623157e308)).toBe('180×10³⁰⁶');
+    expect(formatNumber(-1.7976931348623157e308, { significantFigures: 1 })).toBe('-200×10³⁰⁶');
+    const text = note('y = 1.7976931348623157e308 mm');
+    expect(checkNote(text, evaluateNote(text))).toEqual([]);
+  });
 });
+
 
 
 
