@@ -21,13 +21,18 @@ export function extractBlocksAfterEdit(previousText: string, previous: Block[], 
   }
   const removed = previousText.slice(start, endOld);
   const added = text.slice(start, endNew);
-  if (/[`~\r]/.test(removed) || /[`~\r]/.test(added)) return undefined;
+  // Whole lines around the change, before and after: splitting or joining lines can turn content
+  // such as "```shear" into a fence, so no touched line may hold a fence character.
+  // Whole lines replaced at a line start (the common "new line before the closing fence") touch
+  // no line after them; any other edit touches the lines from the first to the last changed one.
+  const wholeLines = (start === 0 || previousText.charCodeAt(start - 1) === 10) && (removed === '' || removed.endsWith('\n')) && (added === '' || added.endsWith('\n'));
+  const from = previousText.lastIndexOf('\n', start - 1) + 1;
+  const toOld = wholeLines ? endOld : lineEndAt(previousText, endOld);
+  const toNew = wholeLines ? endNew : lineEndAt(text, endNew);
+  if (/[`~\r]/.test(previousText.slice(from, toOld)) || /[`~\r]/.test(text.slice(from, toNew))) return undefined;
   // Lines touched by the edit, in the old text.
   const firstLine = countNewlines(previousText, 0, start);
   const lastLine = firstLine + countNewlines(removed, 0, removed.length);
-  // Whole lines replaced at a line start (the common "new line before the closing fence") touch
-  // no line after them; any other edit touches the lines from firstLine to lastLine.
-  const wholeLines = (start === 0 || previousText.charCodeAt(start - 1) === 10) && (removed === '' || removed.endsWith('\n')) && (added === '' || added.endsWith('\n'));
   const lastTouched = wholeLines ? lastLine - 1 : lastLine;
   const block = previous.find((b) => b.fenceLine < firstLine && firstLine <= b.endLine && lastTouched < b.endLine);
   if (!block || !block.closed || block.lines.some((l) => l.column !== 0) || !/^(`{3,}|~{3,})/.test(text.slice(lineStart(text, block.fenceLine)))) return undefined;
@@ -41,6 +46,11 @@ export function extractBlocksAfterEdit(previousText: string, previous: Block[], 
     if (b.fenceLine < block.fenceLine || delta === 0) return b;
     return { ...b, fenceLine: b.fenceLine + delta, endLine: b.endLine + delta, lines: b.lines.map((l) => ({ ...l, line: l.line + delta })) };
   });
+}
+
+function lineEndAt(s: string, at: number): number {
+  const i = s.indexOf('\n', at);
+  return i < 0 ? s.length : i;
 }
 
 function countNewlines(s: string, from: number, to: number): number {

@@ -43,7 +43,7 @@ describe('extractBlocksAfterEdit', () => {
           blocks = full;
         }
       }),
-      { numRuns: 1500 },
+      { numRuns: 3000 },
     );
     console.log(`incremental extraction answered ${answered} edits without a full parse`);
     expect(answered).toBeGreaterThan(20);

@@ -8,7 +8,7 @@
 import polygonClipping from 'polygon-clipping';
 import type { MultiPolygon, Pair, Polygon as ClipPolygon, Ring } from 'polygon-clipping';
 import type { Part, Primitive, SectionProblem } from './primitives';
-import { problem } from './primitives';
+import { extentOf, problem } from './primitives';
 
 /** Segments of a circle's stand-in polygon; a multiple of 4 so its extreme points are vertices. */
 const CIRCLE_SEGMENTS = 128;
@@ -91,19 +91,7 @@ interface Box {
 }
 
 function boxOf(part: Part): Box {
-  let minX = Infinity, maxX = -Infinity, minY = Infinity, maxY = -Infinity;
-  for (const { shape: s } of part) {
-    if (s.kind === 'circle') {
-      minX = Math.min(minX, s.cx - s.r); maxX = Math.max(maxX, s.cx + s.r);
-      minY = Math.min(minY, s.cy - s.r); maxY = Math.max(maxY, s.cy + s.r);
-    } else {
-      for (let i = 0; i < s.xs.length; i++) {
-        minX = Math.min(minX, s.xs[i]); maxX = Math.max(maxX, s.xs[i]);
-        minY = Math.min(minY, s.ys[i]); maxY = Math.max(maxY, s.ys[i]);
-      }
-    }
-  }
-  return { minX, maxX, minY, maxY };
+  return extentOf(part, false);
 }
 
 /** Whether two boxes share an area (not just an edge), up to a tolerance in metres. */

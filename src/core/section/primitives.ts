@@ -263,3 +263,21 @@ export function polygonArea(xs: ArrayLike<number>, ys: ArrayLike<number>): numbe
   }
   return s / 2;
 }
+
+/** The extent of signed primitives: of the solid ones only, or of all; infinite bounds when there are none. */
+export function extentOf(items: readonly { sign: number; shape: Primitive }[], solidOnly: boolean): { minX: number; maxX: number; minY: number; maxY: number } {
+  let minX = Infinity, maxX = -Infinity, minY = Infinity, maxY = -Infinity;
+  for (const { sign, shape: s } of items) {
+    if (solidOnly && sign < 0) continue;
+    if (s.kind === 'circle') {
+      minX = Math.min(minX, s.cx - s.r); maxX = Math.max(maxX, s.cx + s.r);
+      minY = Math.min(minY, s.cy - s.r); maxY = Math.max(maxY, s.cy + s.r);
+    } else {
+      for (let i = 0; i < s.xs.length; i++) {
+        minX = Math.min(minX, s.xs[i]!); maxX = Math.max(maxX, s.xs[i]!);
+        minY = Math.min(minY, s.ys[i]!); maxY = Math.max(maxY, s.ys[i]!);
+      }
+    }
+  }
+  return { minX, maxX, minY, maxY };
+}

@@ -17,6 +17,7 @@ import {
   type Part,
   type Primitive,
   type SectionProblem,
+  extentOf,
   formatLength,
   makeCircle,
   makePolygon,
@@ -313,19 +314,7 @@ class ShearSection implements Section {
   constructor(flat: Flat[], inputs: SectionInput[]) {
     this.flat = flat;
     this.inputs = inputs;
-    let minX = Infinity, maxX = -Infinity, minY = Infinity, maxY = -Infinity;
-    for (const { sign, shape: s } of flat) {
-      if (sign < 0) continue;
-      if (s.kind === 'circle') {
-        minX = Math.min(minX, s.cx - s.r); maxX = Math.max(maxX, s.cx + s.r);
-        minY = Math.min(minY, s.cy - s.r); maxY = Math.max(maxY, s.cy + s.r);
-      } else {
-        for (let i = 0; i < s.xs.length; i++) {
-          minX = Math.min(minX, s.xs[i]); maxX = Math.max(maxX, s.xs[i]);
-          minY = Math.min(minY, s.ys[i]); maxY = Math.max(maxY, s.ys[i]);
-        }
-      }
-    }
+    const { minX, maxX, minY } = extentOf(flat, true);
     this.bottom = minY;
     this.left = minX;
     this.width = maxX - minX;

@@ -8,6 +8,7 @@ import {
   type Part,
   type SectionProblem,
   type SignedPrimitive,
+  extentOf,
   formatLength,
   makeCircle,
   makePolygon,
@@ -215,22 +216,9 @@ export function translate(part: Part, dx: number, dy: number): Part {
 
 /** The bounding box of a part's solid primitives (its voids lie inside them). */
 export function bounds(part: Part): Bounds {
-  let minX = Infinity, maxX = -Infinity, minY = Infinity, maxY = -Infinity;
-  for (const item of part) {
-    if (item.sign < 0) continue;
-    const s = item.shape;
-    if (s.kind === 'circle') {
-      minX = Math.min(minX, s.cx - s.r); maxX = Math.max(maxX, s.cx + s.r);
-      minY = Math.min(minY, s.cy - s.r); maxY = Math.max(maxY, s.cy + s.r);
-    } else {
-      for (let i = 0; i < s.xs.length; i++) {
-        minX = Math.min(minX, s.xs[i]); maxX = Math.max(maxX, s.xs[i]);
-        minY = Math.min(minY, s.ys[i]); maxY = Math.max(maxY, s.ys[i]);
-      }
-    }
-  }
-  if (minX > maxX) return { minX: 0, maxX: 0, minY: 0, maxY: 0 };
-  return { minX, maxX, minY, maxY };
+  const b = extentOf(part, true);
+  if (b.minX > b.maxX) return { minX: 0, maxX: 0, minY: 0, maxY: 0 };
+  return b;
 }
 
 /** The height of the top of the given parts, 0 when there are none: where the next stacked part sits. */
