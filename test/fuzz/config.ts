@@ -7,6 +7,7 @@
  *   TAULINE_FUZZ_RUNS=N       runs per property (long run default: 1,000,000, i.e. bounded by time)
  *   TAULINE_FUZZ_SECONDS=S    seconds per property (long run default: 30)
  *   TAULINE_FUZZ_SEED=N       seed (slice default: 20261; long run: a fresh one, printed)
+ *   TAULINE_FUZZ_PATH=P       with the seed, replays the failing case fast-check reported (run one test with -t)
  *
  * fast-check prints the seed and the path of a failing case; set TAULINE_FUZZ_SEED to that seed
  * (and the slice size or runs) to replay it.
@@ -40,10 +41,14 @@ export function testTimeout(sliceMs = 60_000): number {
   return LONG_RUN ? SECONDS * 1000 + 120_000 : sliceMs;
 }
 
+/** TAULINE_FUZZ_PATH replays one failing case (with its seed): fast-check prints both. */
+const PATH = env.TAULINE_FUZZ_PATH?.trim() || undefined;
+
 /** fast-check parameters: `sliceRuns` in the default test run, the long-run budget otherwise. */
 export function fuzzParameters<T>(sliceRuns: number, extra: Parameters<T> = {}): Parameters<T> {
-  if (!LONG_RUN) return { numRuns: sliceRuns, seed: SEED, ...extra };
-  return { numRuns: RUNS, seed: SEED, interruptAfterTimeLimit: PROPERTY_TIME_MS, markInterruptAsFailure: false, ...extra };
+  const replay: Parameters<T> = PATH ? { path: PATH, endOnFailure: true } : {};
+  if (!LONG_RUN) return { numRuns: sliceRuns, seed: SEED, ...replay, ...extra };
+  return { numRuns: RUNS, seed: SEED, interruptAfterTimeLimit: PROPERTY_TIME_MS, markInterruptAsFailure: false, ...replay, ...extra };
 }
 
 /**
