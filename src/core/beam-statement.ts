@@ -54,7 +54,7 @@ export function evaluateBeamStatement(st: Extract<Statement, { kind: 'beam' }>, 
     diagnostics.push({ code: p.code, severity: p.severity, message: p.message, ...col(w) });
   }
   if (!solved.beam) return { diagnostics };
-  return { value: { kind: 'beam', name: st.target.name, beam: beamModel(solved.beam, st.items) }, diagnostics };
+  return { value: { kind: 'beam', name: st.target.name, beam: beamModel(solved.beam, st.items, input.loads) }, diagnostics };
 }
 
 function col(w: Where) {
@@ -121,13 +121,14 @@ function addItem(item: BeamItem, ctx: EvalContext, input: BeamInput<Where>, wher
 }
 
 /** The evaluator's view of a solved beam: the envelope by default, or one combination or load group. */
-export function beamModel(result: BeamResult, items: BeamItem[]): BeamModel {
+export function beamModel(result: BeamResult, items: BeamItem[], loads: readonly BeamLoad[] = []): BeamModel {
   const userCombos = result.combinations.map((c) => c.name).filter((n) => n !== ALL_LOADS_COMBINATION);
   const named = new Set(items.flatMap((i) => (i.kind === 'load' && i.group ? [i.group.name] : [])));
   const groups = result.groups.filter((g) => named.has(g) && !userCombos.includes(g));
   const diagram = (name: string) => result.combination(name) ?? result.loadCase(name);
   return {
     result,
+    loads: loads.map(({ tag: _tag, ...load }) => load),
     span: result.span,
     combinationNames: userCombos,
     groupNames: groups,

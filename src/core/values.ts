@@ -3,12 +3,14 @@
  */
 import type { Dimension, DisplayUnit } from './units';
 import type { Section } from './section/section';
-import type { BeamResult } from './beam';
+import type { BeamLoad, BeamResult } from './beam';
 
 /** What the evaluator asks of a solved beam; `combination` undefined means the design envelope. */
 export interface BeamModel {
   /** The solver's full result, for diagrams and reports. */
   result: BeamResult;
+  /** The loads as written (SI, with their groups), for drawing the beam. */
+  loads: readonly BeamLoad[];
   span: number;
   /** Combinations the note wrote (`combine NAME = …`) and load groups it named (`dead: udl …`). */
   combinationNames: string[];

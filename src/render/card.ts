@@ -365,7 +365,7 @@ function beamHtml(res: StatementResult, r: BlockResult, o: CardOptions, commentH
     ['Largest hogging moment <var>M</var><sub>min</sub>', f(summary.Mmin, DIM.moment)],
   ]);
   const solved = beamResultOf(value);
-  const svg = solved ? figure(() => beamDiagrams(solved, { colors: o.figureColors ?? 'currentColor', system: r.unitSystem, significantFigures: o.significantFigures, title: `Beam ${value.name}: shear force and bending moment` }), o) : '';
+  const svg = solved ? figure(() => beamDiagrams(solved, { loads: value.beam.loads, colors: o.figureColors ?? 'currentColor', system: r.unitSystem, significantFigures: o.significantFigures, title: `Beam ${value.name}: shear force and bending moment` }), o) : '';
   const fig = svg ? `<figure class="tl-figure tl-figure-beam">${svg}<figcaption>V(x) and M(x) of ${escapeHtml(value.name)}${combos.length > 1 ? `, envelope of ${combos.length} combinations` : ''}</figcaption></figure>` : '';
   const convention = `<div class="tl-note tl-sign">Signs: ${escapeHtml(SIGN_CONVENTION)}</div>`;
   return `<div ${rowAttrs(st.line, 'beam', o, ' tl-row-wide')}><div class="tl-row-main">${head}${commentHtml}${items}${props}${table}</div>${fig}${convention}</div>`;

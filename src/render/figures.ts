@@ -9,7 +9,7 @@
  * Inputs are plain numbers in SI; nothing here throws on degenerate input: a figure that cannot be
  * drawn comes back as a small labelled placeholder.
  */
-import type { BeamDiagram, BeamResult, DiagramSamples, EnvelopeSamples, SupportKind } from '../core/beam';
+import type { BeamDiagram, BeamLoad, BeamResult, DiagramSamples, EnvelopeSamples, SupportKind } from '../core/beam';
 import { formatNumber } from '../core/format';
 import type { Section } from '../core/section';
 import { DIM, type Dimension, preferredUnit, type UnitSystem } from '../core/units';
@@ -58,6 +58,8 @@ export interface BeamFigureOptions extends FigureOptions {
   width?: number;
   /** Draw one combination (by name) instead of the envelope over all combinations. */
   combination?: string;
+  /** The loads as written (SI, downward positive), drawn on the beam sketch. */
+  loads?: readonly BeamLoad[];
 }
 
 interface Palette {
@@ -554,7 +556,13 @@ export function beamDiagrams(beam: BeamSource, options: BeamFigureOptions = {}):
   let out = '';
   let y = 10;
 
-  // The beam and its supports, reactions beneath.
+  // The loads above the beam, then the beam and its supports, reactions beneath.
+  const loads = (options.loads ?? []).filter((l) => loadInSpan(l, data.span));
+  if (loads.length) {
+    const sketch = loadSketch(loads, X, y + 4, width, p, options);
+    out += sketch.svg;
+    y += sketch.height + 4;
+  }
   const beamY = y + 16;
   out += line(X(0), beamY, X(data.span), beamY, p.ink, 'tl-fig-beam', ' stroke-width="3" stroke-linecap="square"');
   const supportLabels = new LabelSpace(0);
@@ -607,6 +615,84 @@ export function beamDiagrams(beam: BeamSource, options: BeamFigureOptions = {}):
   y += 22;
   const title = options.title ?? `Shear force and bending moment (${data.caption})`;
   return svgOpen(width, y, title, 'tl-fig-beam', p) + out + '</svg>';
+}
+
+/** One kip per foot, N/m. */
+const KLF = 4448.2216152605 / 0.3048;
+
+function loadInSpan(l: BeamLoad, span: number): boolean {
+  if (l.kind === 'point' || l.kind === 'moment') return l.x >= 0 && l.x <= span;
+  return l.x1 >= 0 && l.x2 <= span && l.x2 > l.x1;
+}
+
+/**
+ * Loads drawn above the beam, whose top edge is at the returned `height` below `top`: each line load
+ * as a band (height following its intensity, small arrows), stacked in rows where line loads
+ * overlap along the beam; point loads as a long arrow with the value; applied moments as an arc.
+ * Upward point loads point up. Labels flip to the left near the right edge.
+ */
+function loadSketch(loads: readonly BeamLoad[], X: (x: number) => number, top: number, width: number, p: Palette, o: BeamFigureOptions): { svg: string; height: number } {
+  const band = 10;
+  const rowGap = 13;
+  const lineLoads = loads.filter((l): l is Extract<BeamLoad, { kind: 'udl' | 'ramp' }> => l.kind === 'udl' || l.kind === 'ramp');
+  const rows: number[] = [];
+  lineLoads.forEach((l, i) => {
+    let row = 0;
+    while (lineLoads.slice(0, i).some((m, j) => rows[j] === row && m.x1 < l.x2 && l.x1 < m.x2)) row++;
+    rows.push(row);
+  });
+  const rowCount = rows.length ? Math.max(...rows) + 1 : 0;
+  const height = Math.max(30, rowCount * rowGap + 16);
+  const base = top + height;
+  const lineMax = Math.max(1e-30, ...lineLoads.flatMap((l) => (l.kind === 'udl' ? [Math.abs(l.w)] : [Math.abs(l.w1), Math.abs(l.w2)])));
+  let out = '';
+  const arrow = (x: number, y1: number, y2: number) => {
+    const dir = y2 > y1 ? 1 : -1;
+    return line(x, y1, x, y2, p.accent, 'tl-fig-load', ' stroke-width="1"') + `<path class="tl-fig-load" d="M${num(x - 2.5)},${num(y2 - 4 * dir)} L${num(x)},${num(y2)} L${num(x + 2.5)},${num(y2 - 4 * dir)}" fill="none" stroke="${p.accent}" stroke-width="1"/>`;
+  };
+  const labels = new LabelSpace(0);
+  const label = (x: number, y: number, body: string, preferLeft = false) => {
+    const w = textWidth(body, 9);
+    let px = preferLeft || x + 4 + w > width - 2 ? x - 4 - w : x + 4;
+    px = Math.max(2, Math.min(width - w - 2, px));
+    return labels.place(y, px - 2, px + w + 2) ? text(px, y, body, p, ' font-size="9"', 'tl-fig-muted') : '';
+  };
+  lineLoads.forEach((l, i) => {
+    const w1 = l.kind === 'udl' ? l.w : l.w1;
+    const w2 = l.kind === 'udl' ? l.w : l.w2;
+    const foot = base - 1 - rows[i]! * rowGap;
+    const h1 = Math.max(1.5, (Math.abs(w1) / lineMax) * band);
+    const h2 = Math.max(1.5, (Math.abs(w2) / lineMax) * band);
+    const x1 = X(l.x1);
+    const x2 = X(l.x2);
+    out += `<path class="tl-fig-load" d="M${num(x1)},${num(foot)} L${num(x1)},${num(foot - h1)} L${num(x2)},${num(foot - h2)} L${num(x2)},${num(foot)} Z" fill="${p.accent}" fill-opacity="0.12" stroke="${p.accent}" stroke-width="0.8"/>`;
+    if (rows[i] === 0) {
+      const n = Math.max(2, Math.min(24, Math.round((x2 - x1) / 18)));
+      for (let k = 0; k <= n; k++) {
+        const xk = x1 + ((x2 - x1) * k) / n;
+        const hk = h1 + ((h2 - h1) * k) / n;
+        if (hk > 3) out += arrow(xk, foot - hk, foot);
+      }
+    }
+    const group = l.group && l.group !== 'default' ? `${l.group} ` : '';
+    // Beam line loads read in kN/m, or plf/klf in US units (shear flows elsewhere read per inch).
+    const unit = (o.system ?? 'SI') === 'US' ? (Math.max(Math.abs(w1), Math.abs(w2)) >= KLF ? { text: 'klf', factor: KLF } : { text: 'plf', factor: KLF / 1000 }) : undefined;
+    const body = group + (l.kind === 'udl' ? formatIn(w1, DIM.lineLoad, unit, o) : `${formatIn(w1, DIM.lineLoad, unit, o)} → ${formatIn(w2, DIM.lineLoad, unit, o)}`);
+    out += label(x1 + 1, foot - Math.max(h1, h2) - 2, body);
+  });
+  for (const l of loads) {
+    if (l.kind === 'point') {
+      const x = X(l.x);
+      out += l.P >= 0 ? arrow(x, top, base - 1) : arrow(x, base - 1, top);
+      out += label(x, top + 7, (l.group && l.group !== 'default' ? `${l.group} ` : '') + formatIn(Math.abs(l.P), DIM.force, undefined, o));
+    } else if (l.kind === 'moment') {
+      const x = X(l.x);
+      const r = 8;
+      out += `<path class="tl-fig-load" d="M${num(x - r)},${num(base - 4)} A${r},${r} 0 1 1 ${num(x + r)},${num(base - 4)}" fill="none" stroke="${p.accent}" stroke-width="1"/>`;
+      out += label(x + r, base - 14, formatIn(l.M, DIM.moment, undefined, o));
+    }
+  }
+  return { svg: out, height };
 }
 
 function supportGlyph(kind: SupportKind, x: number, beamY: number, leftHalf: boolean, p: Palette): string {

@@ -165,6 +165,7 @@ function beamHover(b: BeamValue, pr: Presenter, theme: ThemeKind, def: Definitio
   const sum = b.beam.summary(b.combination);
   const svg = forHover(
     beamDiagrams(b.beam.result, {
+      loads: b.beam.loads,
       colors: figureColors(theme),
       system: pr.system,
       significantFigures: pr.sig,
