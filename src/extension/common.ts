@@ -57,8 +57,40 @@ export function serverSettings(): Record<string, unknown> {
   };
 }
 
+/** vscode-languageclient's ErrorAction and CloseAction values (numbers in its protocol, stable since 6.x). */
+const ERROR_CONTINUE = 1;
+const CLOSE_DO_NOT_RESTART = 1;
+const CLOSE_RESTART = 2;
+
+/**
+ * Restarts a server that died (a crash must never leave the engineer without results), tells the user
+ * once per session rather than on every restart, and gives up after 5 crashes within 3 minutes.
+ */
+export function restartingErrorHandler(): NonNullable<LanguageClientOptions['errorHandler']> {
+  const crashes: number[] = [];
+  let told = false;
+  return {
+    error: () => ({ action: ERROR_CONTINUE, handled: true }),
+    closed: () => {
+      const now = Date.now();
+      crashes.push(now);
+      while (crashes.length && now - crashes[0]! > 180_000) crashes.shift();
+      if (crashes.length > 5) {
+        void vscode.window.showErrorMessage('Tauline: the language server stopped 5 times in 3 minutes and will not be restarted. Reload the window to try again.');
+        return { action: CLOSE_DO_NOT_RESTART, handled: true };
+      }
+      if (!told) {
+        told = true;
+        void vscode.window.showWarningMessage('Tauline: the language server stopped unexpectedly and was restarted; results will reappear in a moment.');
+      }
+      return { action: CLOSE_RESTART, handled: true };
+    },
+  };
+}
+
 export function clientOptions(schemes: string[]): LanguageClientOptions {
   return {
+    errorHandler: restartingErrorHandler(),
     documentSelector: schemes.map((scheme) => ({ language: 'markdown', scheme })),
     initializationOptions: { ...serverSettings(), themeKind: themeKind() },
     // Hover text stays untrusted: pictures are data: images, which need neither HTML nor commands.

@@ -74,7 +74,7 @@ export function startServer(connection: Connection, deps: ServerDeps = {}): Serv
   function analysisOf(uri: string): NoteAnalysis | undefined {
     const doc = documents.get(uri);
     if (!doc) return undefined;
-    return store.analyze(uri, doc.version, doc.getText(), settings);
+    return store.analyze(uri, doc.version, textOf(doc), settings);
   }
 
   /** Runs a request handler: answers RequestCancelled for a cancelled request, and never lets an exception out. */
@@ -109,7 +109,7 @@ export function startServer(connection: Connection, deps: ServerDeps = {}): Serv
     const started = now();
     let a: NoteAnalysis;
     try {
-      a = store.analyze(uri, version, doc.getText(), settings);
+      a = store.analyze(uri, version, textOf(doc), settings);
     } catch (e) {
       log(`tauline: evaluation failed: ${e instanceof Error ? (e.stack ?? e.message) : String(e)}`);
       return;
@@ -206,4 +206,10 @@ export function startServer(connection: Connection, deps: ServerDeps = {}): Serv
   documents.listen(connection);
   connection.listen();
   return { documents, store, settings: () => settings };
+}
+
+/** A client that opens a document without its text (not allowed by LSP, seen in the wild) gets an empty note, not a failure on every evaluation. */
+function textOf(doc: TextDocument): string {
+  const text: unknown = doc.getText();
+  return typeof text === 'string' ? text : '';
 }

@@ -156,8 +156,14 @@ describe('language server under chaos', () => {
           : method.startsWith('tauline/') ? { uri }
           : { textDocument: { uri }, position };
         const source = new CancellationTokenSource();
+        const sent = doc?.getText() ?? '';
         const p = c.connection.sendRequest(method, params, source.token).then(
-          () => answered++,
+          (result) => {
+            answered++;
+            // No answer shows a number that is not one (pictures are base64 and are left out).
+            const shown = (JSON.stringify(result) ?? '').replace(/data:image\/[a-z+]+;base64,[A-Za-z0-9+/=]+/g, '');
+            for (const w of ['NaN', 'Infinity', '∞', 'not a number']) if (shown.includes(w) && !sent.includes(w)) failures.push(`${method} shows ${w}: ${shown.slice(Math.max(0, shown.indexOf(w) - 80), shown.indexOf(w) + 40)}`);
+          },
           (e: { code?: number; message?: string }) => {
             // RequestCancelled and ContentModified are answers; anything else is a failure of the server.
             if (e?.code === -32800 || e?.code === -32801) cancelled++;
@@ -222,7 +228,7 @@ describe('language server under chaos', () => {
     expect(peak).toBeLessThan(base * 1.6 + 60);
   }, 900_000);
 
-  it.fails('BUG server-open-without-text: a didOpen with no text is kept as a note and every evaluation of it fails (logged again on each settings change)', async () => {
+  it('a didOpen with no text is an empty note, not a failure on every evaluation', async () => {
     const g = startClient();
     try {
       await g.initialize({ diagnosticsDelayMs: 0 });
@@ -281,7 +287,7 @@ describe('extension restart after a server crash', () => {
   /** vscode-languageclient's CloseAction.Restart. */
   const RESTART = 2;
 
-  it.fails('BUG extension-restart-notice: the client options restart a crashed server and tell the user once (src/extension/common.ts sets no errorHandler)', async () => {
+  it('the client options restart a crashed server and tell the user once', async () => {
     const { clientOptions } = await import('../../src/extension/common');
     const options = clientOptions(['file']);
     const handler = options.errorHandler;
