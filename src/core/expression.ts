@@ -304,7 +304,8 @@ export class TokenCursor {
   /** A unit written straight after a number: `250 mm`, `2 in^4`, `30 in²`. */
   private implicitUnit(): UnitTerm[] | undefined {
     const t = this.peek();
-    if (t.kind !== 'name' || this.stop.has(t.text) || this.isOp('(', 1) || this.isOp('.', 1)) return undefined;
+    // `to` is never a unit: `(2 m)^2 to mm^2` converts the power.
+    if (t.kind !== 'name' || t.text === 'to' || this.stop.has(t.text) || this.isOp('(', 1) || this.isOp('.', 1)) return undefined;
     this.next();
     const { power, end } = this.unitPower(t, true);
     return [{ name: t.text, power, start: t.start, end }];

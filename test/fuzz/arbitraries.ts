@@ -105,7 +105,7 @@ const proseText: fc.Arbitrary<string> = fc.oneof(
   fc.string({ maxLength: 40 }),
 );
 
-const FENCES = ['```shear', '```shear Girder G2', '~~~shear', '````shear', '```SHEAR', '``` shear', '```shear <b>title</b>', '  ```shear'];
+const FENCES = ['```shear', '```shear Girder G2', '~~~shear', '````shear', '```SHEAR', '``` shear', '```shear <b>title</b>', '  ```shear', '> ```shear', '- ```shear', '1. ```shear'];
 
 /** A block: a fence (sometimes unclosed), statements, a closing fence. */
 export const blockText: fc.Arbitrary<string> = fc
