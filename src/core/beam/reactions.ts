@@ -7,6 +7,12 @@
  * element those cubics are the exact deflected shapes of a unit end displacement, so by reciprocity
  * the fixed-end forces, and hence the reactions, are exact (to rounding) for point, partial uniform,
  * partial linearly varying and couple loads. EI is uniform and cancels, so it is taken as 1.
+ *
+ * An overhang (the free piece between a beam end and the nearest support) is statically
+ * determinate: its loads reach the support as their resultant force and couple, and it adds no
+ * stiffness. It is therefore condensed out by statics rather than given free end DOFs, whose
+ * stiffness 12/L³ would swamp the rest of the matrix when the overhang is short (a support 1 µm
+ * from the end of a 10 m beam left the equations unable to balance).
  */
 
 import { type LoadSet, loadResultants } from './loads';
@@ -89,6 +95,15 @@ export function stiffnessSolver(span: number, supports: SupportModel): ReactionS
     restrained[2 * node] = 1;
     if (supports.fixed[s]) restrained[2 * node + 1] = 1;
   }
+  // Overhang elements: the first when the beam starts before its first support, the last when it ends after its last.
+  const leftOverhang = firstSupportNode === 1;
+  const rightOverhang = supports.x.length === 0 || nodes[nodeCount - 1]! > supports.x[supports.x.length - 1]!;
+  const isOverhang = (e: number): boolean => (e === 0 && leftOverhang) || (e === elementCount - 1 && rightOverhang);
+  if (supports.x.length > 0) {
+    // The free end of an overhang takes no part in the equations.
+    if (leftOverhang) restrained[0] = restrained[1] = 1;
+    if (rightOverhang) restrained[dofCount - 2] = restrained[dofCount - 1] = 1;
+  }
   let freeCount = 0;
   for (let d = 0; d < dofCount; d++) if (!restrained[d]) freeIndex[d] = freeCount++;
 
@@ -99,6 +114,7 @@ export function stiffnessSolver(span: number, supports: SupportModel): ReactionS
   const band = new Float64Array(freeCount * width);
   const local = new Float64Array(16);
   for (let e = 0; e < elementCount; e++) {
+    if (isOverhang(e)) continue;
     elementStiffness(lengths[e]!, local);
     for (let a = 0; a < 4; a++) {
       const i = freeIndex[2 * e + a]!;
@@ -117,6 +133,10 @@ export function stiffnessSolver(span: number, supports: SupportModel): ReactionS
     reactions(loads) {
       const elementLoads = new Float64Array(4 * elementCount);
       assembleElementLoads(loads, nodes, lengths, elementLoads);
+      // An overhang's loads reach its support as their resultant, taken straight from the loads
+      // (its work-equivalent end loads would carry a large couple as large cancelling forces).
+      if (leftOverhang) overhangLoads(loads, nodes, 0, 1, elementLoads);
+      if (rightOverhang) overhangLoads(loads, nodes, elementCount - 1, elementCount - 1, elementLoads);
 
       const rhs = new Float64Array(freeCount);
       for (let e = 0; e < elementCount; e++) {
@@ -135,10 +155,11 @@ export function stiffnessSolver(span: number, supports: SupportModel): ReactionS
       // Nodal force each support must supply: Σ over elements of (k·d − equivalent load).
       const nodal = new Float64Array(dofCount);
       for (let e = 0; e < elementCount; e++) {
-        elementStiffness(lengths[e]!, local);
+        const stiff = !isOverhang(e);
+        if (stiff) elementStiffness(lengths[e]!, local);
         for (let a = 0; a < 4; a++) {
           let endForce = -elementLoads[4 * e + a]!;
-          for (let b = 0; b < 4; b++) endForce += local[a * 4 + b]! * displacement[2 * e + b]!;
+          if (stiff) for (let b = 0; b < 4; b++) endForce += local[a * 4 + b]! * displacement[2 * e + b]!;
           nodal[2 * e + a]! += endForce;
         }
       }
@@ -213,6 +234,35 @@ function assembleElementLoads(loads: LoadSet, nodes: Float64Array, lengths: Floa
       for (let i = 0; i < 4; i++) out[4 * e + i]! -= L * integrateLinearTimesCubic(shapes[i]!, sa, h, wa, wb);
     }
   }
+}
+
+/**
+ * Replaces the work-equivalent loads of overhang element e by the resultant of the loads it carries,
+ * as an upward force and a counterclockwise couple at its support node (e or e + 1). Points and
+ * couples belong to the element elementAt assigns them to, as in assembleElementLoads.
+ */
+function overhangLoads(loads: LoadSet, nodes: Float64Array, e: number, supportNode: number, out: Float64Array): void {
+  const left = nodes[e]!, right = nodes[e + 1]!, about = nodes[supportNode]!;
+  let force = 0, couple = 0;
+  for (const p of loads.points) {
+    if (elementAt(nodes, p.x) !== e) continue;
+    force -= p.P;
+    couple -= (p.x - about) * p.P;
+  }
+  for (const c of loads.couples) if (elementAt(nodes, c.x) === e) couple -= c.M;
+  for (const l of loads.lines) {
+    const a = Math.max(l.x1, left), b = Math.min(l.x2, right);
+    if (!(b > a)) continue;
+    const slope = (l.w2 - l.w1) / (l.x2 - l.x1);
+    const wa = l.w1 + slope * (a - l.x1), wb = l.w1 + slope * (b - l.x1);
+    const length = b - a, resultant = 0.5 * (wa + wb) * length;
+    force -= resultant;
+    couple -= resultant * (a - about) + (length * length * (wa + 2 * wb)) / 6;
+  }
+  out.fill(0, 4 * e, 4 * e + 4);
+  const at = 4 * e + 2 * (supportNode - e);
+  out[at] = force;
+  out[at + 1] = couple;
 }
 
 /**

@@ -346,7 +346,9 @@ function snapToSections<Tag>(span: number, supports: CheckedSupport<Tag>[], grou
 
 export function metres(x: number): string {
   if (!Number.isFinite(x)) return String(x);
-  return `${Number(x.toPrecision(4))} m`;
+  const rounded = Number(x.toPrecision(4));
+  // Rounding the largest doubles up to 4 figures overflows; their exponent form is still finite.
+  return Number.isFinite(rounded) ? `${rounded} m` : `${x.toPrecision(4)} m`;
 }
 
 function isRecord(value: unknown): value is Record<string, unknown> {

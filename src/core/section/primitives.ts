@@ -80,6 +80,8 @@ export function problem(
 export function formatLength(metres: number): string {
   if (!Number.isFinite(metres)) return String(metres);
   const mm = metres * 1000;
+  // The largest lengths overflow on the way to millimetres; they are shown in metres instead.
+  if (!Number.isFinite(mm)) return `${metres.toExponential(3)} m`;
   const text = Math.abs(mm) >= 1e6 || (mm !== 0 && Math.abs(mm) < 1e-3) ? mm.toExponential(3) : String(Number(mm.toPrecision(4)));
   return `${text} mm`;
 }

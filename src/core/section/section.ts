@@ -182,6 +182,8 @@ const TIE = 1e-12;
 const SAME_LOCATION = 1e-7;
 /** Sub-intervals used to bracket the roots of d(Q/t)/dy on slabs that contain circular arcs. */
 const ARC_BRACKETS = 32;
+/** The smallest double with full precision; below it (subnormal numbers) digits are lost. */
+const SMALLEST_NORMAL = 2 ** -1022;
 
 export function buildSection(inputs: readonly SectionInput[]): BuildResult {
   try {
@@ -250,7 +252,44 @@ function build(inputs: readonly SectionInput[]): BuildResult {
     return { problems: [...layout, problem('section.zero-area', 'The holes remove all of the material: the section has no area.')] };
   }
   const section = new ShearSection(flat, cleaned);
+  // Finite dimensions can still overflow (parts 1e300 m apart) or underflow (I of a 1e-100 m plate) in the
+  // properties; no section is handed out whose area, centroid or second moments are not usable numbers.
+  const properties = [section.area, section.centroidX, section.centroidY, section.I, section.Iy, section.Ixy, section.depth, section.width];
+  if (!properties.every(Number.isFinite)) {
+    return {
+      problems: [
+        ...layout,
+        problem('section.not-finite', 'This section is too large to compute: its area, centroid or second moments of area exceed the largest number that can be represented. Check the dimensions, their units and how far apart the parts are placed.'),
+      ],
+    };
+  }
+  // Below the smallest normal double, floats keep too few digits (a 1e-80 m plate's I came out 0.2 % off).
+  if (!(section.area >= SMALLEST_NORMAL) || !(section.I >= SMALLEST_NORMAL)) {
+    return {
+      problems: [
+        ...layout,
+        problem('section.not-finite', 'This section is too small to compute: its area or second moment of area is below the smallest number that can be represented to full precision. Check the dimensions and their units.'),
+      ],
+    };
+  }
   return { section, problems: [...layout, ...section.problems] };
+}
+
+/** The problem for a tau, shear flow or tau_max that is finite in truth but too large for a double. */
+function tooLarge(): SectionProblem {
+  return problem('section.not-finite', "The result is too large to represent. Check the shear force, the section's dimensions and their units.");
+}
+
+/**
+ * V·Q/(I·t), with t = 1 for shear flow. The products can overflow, or lose digits below the
+ * smallest normal double, while the quotient itself is representable, so the quotients are taken
+ * first in that case; the caller turns a result that is still not finite into a problem.
+ */
+function shearRatio(V: number, Q: number, I: number, t: number): number {
+  const force = V * Q, stiffness = I * t;
+  const direct = force / stiffness;
+  const safe = Number.isFinite(direct) && stiffness >= SMALLEST_NORMAL && (force === 0 || Math.abs(force) >= SMALLEST_NORMAL);
+  return safe ? direct : V * (Q / I / t);
 }
 
 function primitiveArea(s: Primitive): number {
@@ -650,7 +689,8 @@ class ShearSection implements Section {
     if (bad) return { value: 0, problem: bad };
     const at = this.place(y);
     if (at.problem) return { value: 0, problem: at.problem };
-    return { value: (V * this.QAt(at.y)) / this.I };
+    const value = shearRatio(V, this.QAt(at.y), this.I, 1);
+    return Number.isFinite(value) ? { value } : { value: 0, problem: tooLarge() };
   }
 
   tauSides(V: number, y: number): TauSides {
@@ -661,8 +701,11 @@ class ShearSection implements Section {
     const s = this.sides(at.y);
     const Q = this.QAt(at.y);
     const out: TauSides = { widthBelow: s.below, widthAbove: s.above, firstMoment: Q };
-    if (s.below > 0) out.below = (V * Q) / (this.I * s.below);
-    if (s.above > 0) out.above = (V * Q) / (this.I * s.above);
+    if (s.below > 0) out.below = shearRatio(V, Q, this.I, s.below);
+    if (s.above > 0) out.above = shearRatio(V, Q, this.I, s.above);
+    if (!Number.isFinite(out.below ?? 0) || !Number.isFinite(out.above ?? 0)) {
+      return { widthBelow: s.below, widthAbove: s.above, firstMoment: Q, problem: tooLarge() };
+    }
     if (s.below === 0 && s.above === 0) {
       const none = this.noMaterial(at.y);
       if (none) out.problem = none;
@@ -688,7 +731,9 @@ class ShearSection implements Section {
       width = wA;
       side = 'above';
     }
-    return { value: (V * sides.firstMoment) / (this.I * width), width, firstMoment: sides.firstMoment, side };
+    const value = shearRatio(V, sides.firstMoment, this.I, width);
+    if (!Number.isFinite(value)) return { value: 0, width: 0, firstMoment: sides.firstMoment, side: 'both', problem: tooLarge() };
+    return { value, width, firstMoment: sides.firstMoment, side };
   }
 
   tauMax(V: number): TauMaxResult {
@@ -696,7 +741,9 @@ class ShearSection implements Section {
     if (bad) return { value: 0, perV: 0, locations: [], problem: bad };
     const m = (this.maxCache ??= this.findMax());
     if (m.problem) return { value: 0, perV: 0, locations: [], problem: m.problem };
-    return { value: V * m.perV, perV: m.perV, locations: m.locations.map((l) => ({ ...l })) };
+    const value = V * m.perV;
+    if (!Number.isFinite(value) || !Number.isFinite(m.perV)) return { value: 0, perV: 0, locations: [], problem: tooLarge() };
+    return { value, perV: m.perV, locations: m.locations.map((l) => ({ ...l })) };
   }
 
   /**
@@ -787,7 +834,7 @@ class ShearSection implements Section {
     const emit = (y: number, width: number, Q: number) => {
       ys[m] = y;
       widths[m] = width;
-      taus[m] = width > 0 ? Q / (I * width) : 0;
+      taus[m] = width > 0 ? shearRatio(1, Q, I, width) : 0;
       m++;
     };
     // Merge three ascending lists: breakpoints (both sides, so jumps draw as jumps), the peaks, even samples.
