@@ -24,6 +24,7 @@ export default {
     'test/core/section-properties.test.ts',
     'test/core/section-crosscheck.test.ts',
     'test/fuzz/regressions.test.ts',
+    'test/fuzz/evaluator.oracle.test.ts',
     'test/fuzz/section.fuzz.test.ts',
     'test/fuzz/note.fuzz.test.ts',
   ],

@@ -171,6 +171,22 @@ describe('members and functions against closed forms', () => {
     expect(valueOf('(2 m)^12')).toBe(4096);
     expect(valueOf('(4 m^2)^0.5')).toBe(2);
     expect(valueOf('(2 m)^-12')).toBe(2 ** -12);
+    expect(valueOf('+(2 m)')).toBe(2);
+    expect(valueOf(`max(${Array.from({ length: 120 }, (_v, i) => `${i} mm`).join(', ')})`)).toBeCloseTo(0.119, 15);
+  });
+
+  it('min and max keep the first of equal values, with the unit it was written in', () => {
+    const shown = (line: string) => evaluateNote(['```shear', line, '```'].join('\n')).blocks[0]!.results[0]!.text;
+    expect(shown('x = max(1 m, 1000 mm)')).toBe('1.00 m');
+    expect(shown('x = min(1000 mm, 1 m)')).toBe('1000 mm');
+  });
+
+  it('width at a flange-web junction is the narrower side (a tee: 200 × 20 mm flange on a 10 × 180 mm web, closed form)', () => {
+    const r = evaluateNote(['```shear', 'section T', '  plate 10 mm x 180 mm', '  plate 200 mm x 20 mm', 'w = width(T, 180 mm)', 'wf = width(T, 190 mm)', '```', ''].join('\n'));
+    expect(r.diagnostics).toEqual([]);
+    const [w, wf] = r.blocks[0]!.results.slice(1).map((x) => (x.value as Quantity).si);
+    expect(w).toBeCloseTo(0.01, 12);
+    expect(wf).toBeCloseTo(0.2, 12);
   });
 });
 
@@ -206,10 +222,25 @@ describe('error paths of the function table, by code', () => {
     ['5 kN - 3 mm', 'unit.mismatch'],
     ['2 m to kN', 'unit.mismatch'],
     ['-S', 'type.quantity'],
+    ['tau(S, S, 1 mm)', 'unit.argument'],
   ];
   for (const [expr, code] of cases) {
     it(`${expr} → ${code}`, () => expect(errorOf(expr)).toEqual([code]));
   }
+
+  it('messages name what was given and suggest the unit meant', () => {
+    const message = (expr: string) => evaluateNote(['```shear', ...CONTEXT, `x = ${expr}`, '```', ''].join('\n')).diagnostics.find((d) => d.line === CONTEXT.length + 1)!.message;
+    expect(message('sqrt(S)')).toBe('The value under sqrt must be a quantity, but the section S was given.');
+    expect(message('abs(B)')).toBe('The value in abs must be a quantity, but the beam B was given.');
+    expect(message('5 KN')).toBe('"KN" is not a unit this tool knows. Did you mean kN?');
+    expect(message('5 kN + 3 mm')).toBe('Cannot add a length (mm) to a force (kN).');
+    expect(message('5 kN - 3 mm')).toBe('Cannot subtract a length (mm) from a force (kN).');
+    expect(message('tau(S, 1 kN)')).toBe('tau takes 3 arguments: tau(section, V, y).');
+    expect(message('shear(B)')).toBe('shear takes 2 to 3 arguments: shear(beam, x[, left | right]).');
+    expect(message('tau_max_at(S, S)')).toBe('tau_max_at takes 1 argument: tau_max_at(section).');
+    expect(message('B.nothing')).toBe('A beam has Vmax, Mmax, Mmin, span and its load groups and combinations ULS, dead, live; "nothing" is not one of them.');
+    expect(message('B.ULS.nothing')).toBe('A beam has Vmax, Mmax, Mmin, span; "nothing" is not one of them.');
+  });
 
   it('the edges of a beam and x = 0 are inside it; a tolerance of a billionth of a millimetre is not outside', () => {
     expect(valueOf('shear(B, 0 m)')).toBeGreaterThan(0);

@@ -1,7 +1,7 @@
 /**
- * Bugs the fuzzers found, each pinned by the smallest input that showed it. The fixed ones run as
- * ordinary tests; the ones waiting for their owner are `it.fails` with the bug named, so the day the
- * fix lands the test says so.
+ * Bugs the fuzzers found, each pinned by the smallest input that showed it. A bug in a part another
+ * engineer owns is pinned first as `it.fails` naming it (and listed in KNOWN_BUGS, invariants.ts);
+ * when the fix lands the test fails, and it moves here as an ordinary test.
  */
 import { describe, expect, it } from 'vitest';
 import { noteToJson } from '../../src/core/contract';
@@ -82,13 +82,15 @@ describe('fixed', () => {
     const text = note('y = 1.7976931348623157e308 mm');
     expect(checkNote(text, evaluateNote(text))).toEqual([]);
   });
+  it('`to` after a power converts it, instead of being read as a unit of the exponent (was syntax.unexpected)', () => {
+    const r = evaluateNote(note('a = (2 m)^2 to mm^2', 'b = 3^2 to mm'));
+    expect(r.blocks[0]!.results[0]!.text).toBe('4.00×10⁶ mm²');
+    expect(r.diagnostics.map((d) => [d.line, d.code])).toEqual([[2, 'unit.mismatch']]);
+  });
 });
 
-
-
-
-describe('waiting for the section engine (src/core/section, owner editing)', () => {
-  it('BUG section-overflow: tau, flow and tauMax of a huge but finite V overflow to Infinity without a problem', () => {
+describe('section engine (fixed by its owner)', () => {
+  it('section-overflow: tau, flow and tauMax of a huge but finite V are a problem, not Infinity', () => {
     const built = buildSection([{ part: plate(0.01, 0.1).part!, hole: false }]);
     const s = built.section!;
     const V = 1.7976931348623157e308;
@@ -98,12 +100,12 @@ describe('waiting for the section engine (src/core/section, owner editing)', () 
     }
   });
 
-  it('BUG section-message-overflow: a height of 1e308 cm is reported as "y = Infinity mm" (formatLength multiplies by 1000)', () => {
+  it('section-message-overflow: a height of 1e308 cm is not reported as "y = Infinity mm"', () => {
     const text = note('section S', '  plate 1 mm x 1 mm', 'r = tau(S, 0 kN, 1e308 cm)');
-    expect(checkNote(text, evaluateNote(text), { includeKnownBugs: true })).toEqual([]);
+    expect(checkNote(text, evaluateNote(text), {})).toEqual([]);
   });
 
-  it('BUG section-non-finite-properties: parts 1e300 m apart, or a circle 1.7e77 m across, build a section whose properties are NaN or Infinity, with no problem', () => {
+  it('section-non-finite-properties: parts 1e300 m apart, or a circle 1.7e77 m across, are refused instead of giving NaN or Infinity', () => {
     const outer = { kind: 'circle' as const, cx: 0, cy: -1e300, r: 5e11 };
     const inner = { ...outer, r: 499999999999.999 };
     const cases = [
@@ -118,23 +120,22 @@ describe('waiting for the section engine (src/core/section, owner editing)', () 
       else expect(built.problems.length).toBeGreaterThan(0);
     }
   });
-
 });
 
-describe('waiting for the beam solver (src/core/beam, owner editing)', () => {
-  it('BUG beam-support-near-end: a pin 1 µm from the end of a three-span beam fails its own balance check (beam.internal)', () => {
+describe('beam solver (fixed by its owner)', () => {
+  it('beam-support-near-end: a pin 1 µm from the end of a three-span beam is solved (was beam.internal)', () => {
     const text = note('beam W1: 10.8 m', '  pin at 0.000001 m', '  roller at 3.6 m', '  roller at 7.2 m', '  roller at 10.8 m', '  udl 1.1 kN/m', 'V = W1.Vmax');
     expect(evaluateNote(text).diagnostics).toEqual([]);
   });
 
-  it('BUG beam-support-near-end (API): three pins at 0.5 m, 1/3 m and 1 µm on a 1 m span under a tiny couple at the end', () => {
+  it('beam-support-near-end (API): three pins at 0.5 m, 1/3 m and 1 µm on a 1 m span under a tiny couple at the end', () => {
     const solved = solveBeam({ span: 1, supports: [{ kind: 'pin', x: 0.5 }, { kind: 'pin', x: 1 / 3 }, { kind: 'pin', x: 0.000001 }], loads: [{ kind: 'moment', M: 8.241458349128392e-246, x: 0 }] });
     expect(solved.problems).toEqual([]);
   });
 
-  it('BUG beam-message-overflow: a support at 1.7976931348623157e308 m is reported as "at Infinity m"', () => {
+  it('beam-message-overflow: a support at 1.7976931348623157e308 m is not reported as "at Infinity m"', () => {
     const text = note('beam B: 6 m', '  pin at 1.7976931348623157e308 m', '  roller at 6 m', '  udl 1 kN/m');
-    expect(checkNote(text, evaluateNote(text), { includeKnownBugs: true })).toEqual([]);
+    expect(checkNote(text, evaluateNote(text), {})).toEqual([]);
   });
 });
 
@@ -146,6 +147,6 @@ describe('renderer (fixed by its owner)', () => {
     }
     const text = ['```shear', 'beam B: 1 m', '  pin at 0 m', '  roller at 1 m', '  constructor: udl 1 kN/m', 'V = shear(B.constructor, 0.5 m)', '```', ''].join('\n');
     expect(evaluateNote(text).diagnostics).toEqual([]);
-    expect(checkHtml(new MarkdownIt().use(shearPlugin).render(text), text, { includeKnownBugs: true })).toEqual([]);
+    expect(checkHtml(new MarkdownIt().use(shearPlugin).render(text), text, {})).toEqual([]);
   });
 });
