@@ -40,6 +40,8 @@ export function extractBlocksAfterEdit(previousText: string, previous: Block[], 
   const lines = text.split('\n');
   const content: BlockLine[] = [];
   for (let line = block.fenceLine + 1; line < block.endLine + delta; line++) content.push({ line, column: 0, text: lines[line] ?? '' });
+  // markdown-it reads NUL as U+FFFD; leave such a block to the full parse, so both paths agree.
+  if (content.some((l) => l.text.includes('\0'))) return undefined;
   const edited: Block = { ...block, endLine: block.endLine + delta, lines: content, source: content.map((l) => l.text).join('\n') };
   return previous.map((b) => {
     if (b === block) return edited;
