@@ -234,8 +234,10 @@ interface BlockSettings {
 }
 
 export function evaluateBlock(block: Block, outer: Map<string, Binding>, settings: BlockSettings): BlockResult {
-  const started = settings.now();
   const parsed = parseBlock(block);
+  // The budget covers evaluation (parsing is bounded by the line limits), and the first statement
+  // always runs, so a slow machine still makes progress on every block.
+  const started = settings.now();
   const diagnostics = [...parsed.diagnostics];
   const defines = new Map<string, Binding>();
   const reads = new Map<string, Binding | undefined>();
@@ -249,8 +251,8 @@ export function evaluateBlock(block: Block, outer: Map<string, Binding>, setting
     return b;
   };
   const fmt = (q: Quantity) => formatQuantity(q, settings.system, settings.sig);
-  for (const st of parsed.statements) {
-    if (settings.now() - started > settings.budget) {
+  for (const [index, st] of parsed.statements.entries()) {
+    if (index > 0 && settings.now() - started > settings.budget) {
       diagnostics.push({ code: 'block.budget', severity: 'error', message: `This block took longer than ${settings.budget} ms; the statements from here on were not evaluated.`, line: st.line, column: st.start, endColumn: st.end });
       break;
     }
