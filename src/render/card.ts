@@ -263,10 +263,13 @@ function stressFigureHtml(
   shown: Set<string>,
 ): string {
   const st = res.statement;
-  if (st.kind !== 'assign') return '';
+  // A line with an error draws no figure: its numbers may be the very ones that failed.
+  if (st.kind !== 'assign' || res.failed) return '';
   const calls = stressCalls(st.expr, res.trace, c.source);
   if (!calls.length) return '';
   const call = calls[0]!;
+  const peak = call.section.section.tauMax(call.V);
+  if (peak.problem || !Number.isFinite(peak.value)) return '';
   const key = groupKey(call);
   const section = call.section.section;
   const options = { colors: o.figureColors ?? 'currentColor', system: c.system, significantFigures: o.significantFigures } as const;
