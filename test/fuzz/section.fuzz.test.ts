@@ -143,6 +143,60 @@ describe('section engine', () => {
     );
   }, testTimeout());
 
+  it('tau is V·Q/(I·t) on the narrower side, names that side, and tau_max is the largest tau over the depth (at its own location)', () => {
+    const realistic = fc.array(
+      fc.oneof(
+        fc.tuple(fc.double({ min: 0.005, max: 0.5, noNaN: true }), fc.double({ min: 0.005, max: 0.5, noNaN: true })).map(([b, h]) => plate(b, h).part!),
+        fc.double({ min: 0.01, max: 0.5, noNaN: true }).map((d) => circle(d).part!),
+        fc.tuple(fc.double({ min: 0.1, max: 0.6, noNaN: true }), fc.double({ min: 0.05, max: 0.3, noNaN: true })).map(([d, bf]) => isection({ d, bf, tf: d / 12, tw: bf / 15 }).part!),
+      ),
+      { minLength: 1, maxLength: 3 },
+    ).map((parts) => {
+      let top = 0;
+      return parts.map((part) => {
+        const placed = translate(part, 0, top);
+        for (const p of placed) top = Math.max(top, p.shape.kind === 'circle' ? p.shape.cy + p.shape.r : Math.max(...p.shape.ys));
+        return { part: placed, hole: false };
+      });
+    });
+    fc.assert(
+      fc.property(realistic, fc.double({ min: 1e3, max: 1e6, noNaN: true }), (inputs, V) => {
+        const s = buildSection(inputs).section;
+        if (!s) return;
+        const ys = [...s.breakpoints().map((b) => b.y), ...Array.from(s.profile(60).y)];
+        let largest = 0;
+        for (const y of ys) {
+          const t = s.tau(V, y);
+          if (t.problem) continue;
+          const w = s.widthAt(y);
+          const Q = s.firstMoment(y).value;
+          const positive = [w.below, w.above].filter((x) => x > 0);
+          if (positive.length === 0) {
+            expect(t.value).toBe(0);
+            continue;
+          }
+          const width = Math.min(...positive);
+          // tau = V·Q/(I·t), t the narrower side with material (closed form of the elementary theory).
+          expect(Math.abs(t.value - (V * Q) / (s.I * width))).toBeLessThanOrEqual(1e-9 * Math.abs((V * Q) / (s.I * width)) + 1e-9);
+          expect(t.width).toBeCloseTo(width, 12);
+          const same = Math.abs(w.below - w.above) <= 1e-10 * s.width;
+          const side = w.below > 0 && w.above > 0 ? (same ? 'both' : w.below < w.above ? 'below' : 'above') : w.below > 0 ? 'below' : 'above';
+          expect(t.side, `y=${y}`).toBe(side);
+          largest = Math.max(largest, Math.abs(t.value));
+        }
+        const m = s.tauMax(V);
+        // A part touching another at a point pinches the material to nothing there: no finite maximum.
+        if (m.problem) {
+          expect(m.problem.code).toBe('section.pinch');
+          return;
+        }
+        expect(Math.abs(m.value)).toBeGreaterThanOrEqual(largest * (1 - 1e-9));
+        for (const l of m.locations) expect(Math.abs(Math.abs(s.tau(V, l.y).value) - Math.abs(m.value))).toBeLessThanOrEqual(1e-9 * Math.abs(m.value));
+      }),
+      fuzzParameters(200),
+    );
+  }, testTimeout());
+
   it('takes garbage in place of parts without throwing', () => {
     const junk = fc.oneof(fc.constant(null), fc.constant(undefined), fc.integer(), fc.string(), fc.constant([]), fc.constant([{}]), fc.constant([{ sign: 1, shape: { kind: 'circle', cx: 0, cy: 0, r: Number.NaN } }]), fc.constant([{ sign: 1, shape: { kind: 'polygon', xs: [0, 1], ys: [0] } }]), fc.constant([{ sign: 1, shape: { kind: 'triangle' } }]));
     fc.assert(
