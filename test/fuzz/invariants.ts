@@ -88,7 +88,6 @@ export function nonFiniteNumbers(v: unknown, path = '$', out: string[] = [], see
  */
 const KNOWN_BUGS: { name: string; pattern: RegExp }[] = [
   { name: 'beam-tiny-span', pattern: /beam\.internal: The solved forces do not balance/ },
-  { name: 'render-figure-infinity', pattern: /rendered text shows "∞"/ },
   { name: 'section-sliver-part', pattern: /^part summary .*"(centroidY|firstMoment)":null/ },
 ];
 
