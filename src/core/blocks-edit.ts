@@ -10,6 +10,8 @@ import type { Block, BlockLine } from './blocks';
 export function extractBlocksAfterEdit(previousText: string, previous: Block[], text: string): Block[] | undefined {
   if (previousText === text) return previous;
   if (text.charCodeAt(0) === 0xfeff || previousText.charCodeAt(0) === 0xfeff) return undefined;
+  // Line numbers here count \n only; markdown-it also ends a line at a lone \r (anywhere in the note).
+  if (text.includes('\r') || previousText.includes('\r')) return undefined;
   let start = 0;
   const limit = Math.min(previousText.length, text.length);
   while (start < limit && previousText.charCodeAt(start) === text.charCodeAt(start)) start++;

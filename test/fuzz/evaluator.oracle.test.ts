@@ -39,7 +39,7 @@ const expression: fc.Arbitrary<string> = fc.letrec<{ e: string }>((tie) => ({
   ),
 })).e;
 
-type Oracle = { ok: true; si: number; dim: number[] } | { ok: false };
+type Oracle = { ok: true; si: number; dim: number[] } | { ok: false } | { ok: 'unknown' };
 
 function oracle(expr: string): Oracle {
   try {
@@ -48,8 +48,10 @@ function oracle(expr: string): Oracle {
     const u = r as { value?: unknown; dimensions?: number[] };
     if (typeof u.value === 'number' && Array.isArray(u.dimensions) && Number.isFinite(u.value)) return { ok: true, si: u.value, dim: u.dimensions };
     return { ok: false };
-  } catch {
-    return { ok: false };
+  } catch (e) {
+    // mathjs keeps a ratio of units as a dimensionless unit that min/max cannot compare with a
+    // plain number; that is a limit of the oracle, not an answer.
+    return /unexpected type of argument/.test(String(e)) ? { ok: 'unknown' } : { ok: false };
   }
 }
 
@@ -67,6 +69,7 @@ describe('arithmetic with units against mathjs', () => {
       fc.property(expression, fc.option(fc.constantFrom(...UNITS), { freq: 3 }), (e, to) => {
         const expr = to ? `${e} to ${to}` : e;
         const want = oracle(expr);
+        if (want.ok === 'unknown') return;
         const got = ours(expr);
         if (!want.ok) {
           expect(got.errors.length, `${expr}: mathjs has no answer, we gave ${got.value?.si}`).toBeGreaterThan(0);

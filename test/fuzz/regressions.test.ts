@@ -95,7 +95,17 @@ describe('fixed', () => {
     const after = '```shear\nb = 1\u0000 m\nb = 2 m\nb = 2 m\n```\n';
     expect(noteToJson('n.md', evaluateNote(after, still, cache))).toEqual(noteToJson('n.md', evaluateNote(after, still)));
   });
+  it('an edit anywhere in a note with a lone carriage return keeps its lines where a full parse puts them', () => {
+    const still = { now: () => 0 };
+    const cache = new NoteCache();
+    // The smallest case a search found: \r ends the fence lines for markdown-it, not for a count of \n.
+    const before = '\n```shear\rT\n```shear\rT\nx = 1 m\nx = 1 m\nx = 1 m\nx = 1 m\n```shear\n```shear\rT\n```\n';
+    evaluateNote(before, still, cache);
+    const after = before.replace('x = 1 m', 'x = 5 m');
+    expect(noteToJson('n.md', evaluateNote(after, still, cache))).toEqual(noteToJson('n.md', evaluateNote(after, still)));
+  });
 });
+
 
 
 describe('section engine (fixed by its owner)', () => {
